@@ -1,0 +1,102 @@
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import connectPgSimple from 'connect-pg-simple';
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import pg from 'pg';
+import { pinoHttp } from 'pino-http';
+import { configurePassport } from './auth/passport.js';
+import type { ServerConfig } from './config.js';
+import type { EvaluationPool } from './evaluation/pool.js';
+import type { Logger } from './logger.js';
+import { requireAdmin, requireUser } from './middleware/auth.js';
+import { csrfProtection } from './middleware/csrf.js';
+import { errorHandler, unknownApiRoute } from './middleware/error-handler.js';
+import { adminRoutes } from './routes/admin.js';
+import { authRoutes } from './routes/auth.js';
+import { evaluateRoutes } from './routes/evaluate.js';
+import { groupRoutes } from './routes/groups.js';
+import { memberRoutes } from './routes/members.js';
+import { groupWorksheetRoutes, worksheetRoutes } from './routes/worksheets.js';
+
+export interface AppDeps {
+  config: ServerConfig;
+  logger: Logger;
+  sessionPool: pg.Pool;
+  evaluationPool: EvaluationPool;
+}
+
+/** The Express application: the JSON API under /api and the built client beside it. */
+export function createApp({ config, logger, sessionPool, evaluationPool }: AppDeps): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => !req.url?.startsWith('/api') },
+      // Requests are logged at debug level (LOG_LEVEL=debug shows them); failures always.
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : 'debug'),
+    }),
+  );
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // Monaco and KaTeX set inline styles; scripts stay same-origin only.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'worker-src': ["'self'", 'blob:'],
+          'font-src': ["'self'", 'data:'],
+          'upgrade-insecure-requests': null,
+        },
+      },
+      hsts: config.secureCookies,
+    }),
+  );
+
+  const PgStore = connectPgSimple(session);
+  const passport = configurePassport();
+  const api = express.Router();
+  api.use(express.json({ limit: '1mb' }));
+  api.use(cookieParser());
+  api.use(
+    session({
+      name: 'sheetwise.sid',
+      store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false }),
+      secret: config.sessionSecret,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: config.secureCookies, maxAge: 14 * 24 * 3600_000 },
+    }),
+  );
+  api.use(passport.session());
+  api.use(csrfProtection(config.secureCookies));
+
+  api.get('/health', (_req, res) => {
+    res.json({ ok: true });
+  });
+  api.use('/auth', authRoutes({ loginRateLimit: config.loginRateLimit }));
+  api.use('/groups/:groupId/members', requireUser, memberRoutes());
+  api.use('/groups/:groupId/worksheets', requireUser, groupWorksheetRoutes());
+  api.use('/groups', requireUser, groupRoutes());
+  api.use('/worksheets', requireUser, worksheetRoutes());
+  api.use('/evaluate', requireUser, evaluateRoutes(evaluationPool));
+  api.use('/admin', requireAdmin, adminRoutes());
+  api.use(unknownApiRoute);
+  api.use(errorHandler(logger));
+  app.use('/api', api);
+
+  const clientDir = resolve(config.clientDir);
+  if (existsSync(join(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    // Client-side routes: every other GET gets the application shell.
+    app.get(/.*/, (_req, res) => res.sendFile(join(clientDir, 'index.html'), { maxAge: 0 }));
+  } else {
+    app.get('/', (_req, res) => res.type('text').send('The client is not built. Run `npm start`, which builds it.'));
+  }
+  return app;
+}

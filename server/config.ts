@@ -1,0 +1,34 @@
+/** Server configuration, read once from the environment. */
+export interface ServerConfig {
+  port: number;
+  host: string;
+  databaseUrl: string;
+  sessionSecret: string;
+  /** Folder with the built Angular client; served when it exists. */
+  clientDir: string;
+  /** Per-statement evaluation time limit. */
+  statementTimeLimitMs: number;
+  evaluationWorkers: number;
+  /** `secure` cookies only behind HTTPS. */
+  secureCookies: boolean;
+  logLevel: string;
+  /** Sign-in attempts per address and IP in the rate-limit window. */
+  loginRateLimit: number;
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
+  const databaseUrl = env['DATABASE_URL'];
+  if (!databaseUrl) throw new Error('DATABASE_URL is not set. Start the product with `npm start`.');
+  return {
+    port: Number(env['PORT'] ?? 4300),
+    host: env['HOST'] ?? '127.0.0.1',
+    databaseUrl,
+    sessionSecret: env['SESSION_SECRET'] ?? 'sheetwise-development-secret-change-me',
+    clientDir: env['CLIENT_DIR'] ?? 'dist/sheetwise/browser',
+    statementTimeLimitMs: Number(env['STATEMENT_TIME_LIMIT_MS'] ?? 5000),
+    evaluationWorkers: Number(env['EVALUATION_WORKERS'] ?? 2),
+    secureCookies: env['SECURE_COOKIES'] === '1',
+    logLevel: env['LOG_LEVEL'] ?? 'info',
+    loginRateLimit: Number(env['LOGIN_RATE_LIMIT'] ?? 20),
+  };
+}

@@ -1,0 +1,27 @@
+import type { Sequelize } from 'sequelize';
+import { Group } from './group.js';
+import { Membership } from './membership.js';
+import { User } from './user.js';
+import { Worksheet } from './worksheet.js';
+import { WorksheetVersion } from './worksheet-version.js';
+
+export { Group, Membership, User, Worksheet, WorksheetVersion };
+
+/** Registers every model and its associations on the Sequelize instance. */
+export function initModels(sequelize: Sequelize): void {
+  User.initModel(sequelize);
+  Group.initModel(sequelize);
+  Membership.initModel(sequelize);
+  Worksheet.initModel(sequelize);
+  WorksheetVersion.initModel(sequelize);
+
+  Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
+  Membership.belongsTo(Group, { foreignKey: 'groupId', as: 'group' });
+  Group.hasMany(Membership, { foreignKey: 'groupId', as: 'memberships' });
+  User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' });
+  Worksheet.belongsTo(Group, { foreignKey: 'groupId', as: 'group' });
+  Worksheet.belongsTo(User, { foreignKey: 'updatedById', as: 'updatedBy' });
+  Group.hasMany(Worksheet, { foreignKey: 'groupId', as: 'worksheets' });
+  WorksheetVersion.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
+  Worksheet.hasMany(WorksheetVersion, { foreignKey: 'worksheetId', as: 'versions' });
+}

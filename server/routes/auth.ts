@@ -1,0 +1,79 @@
+import { Router, type Request, type Response } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import passport from 'passport';
+import { loginBody, registerBody } from '../../shared/api.js';
+import { hashPassword } from '../auth/password.js';
+import { currentUser, requireUser } from '../middleware/auth.js';
+import { HttpError } from '../middleware/http-error.js';
+import { parseInput } from '../middleware/validate.js';
+import { User } from '../models/index.js';
+import { issueCsrfToken } from '../middleware/csrf.js';
+
+function signIn(req: Request, res: Response, user: User): Promise<void> {
+  // passport regenerates the session here (a new id at sign-in: no session fixation).
+  return new Promise((resolve, reject) =>
+    req.login(user, (err) => {
+      if (err) return reject(err);
+      issueCsrfToken(req, res);
+      resolve();
+    }),
+  );
+}
+
+export function authRoutes(options: { loginRateLimit: number }): Router {
+  const router = Router();
+  const tooMany = (what: string) => ({
+    error: { code: 'rate_limited', message: `Too many ${what} attempts. Wait 15 minutes and try again.` },
+  });
+  const loginLimiter = rateLimit({
+    windowMs: 15 * 60_000,
+    limit: options.loginRateLimit,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `${req.ip}|${String(req.body?.email ?? '').toLowerCase()}`,
+    validate: { keyGeneratorIpFallback: false },
+    message: tooMany('sign-in'),
+  });
+  const registerLimiter = rateLimit({
+    windowMs: 60 * 60_000,
+    limit: options.loginRateLimit,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    message: tooMany('registration'),
+  });
+
+  router.post('/register', registerLimiter, async (req, res) => {
+    const body = parseInput(registerBody, req.body);
+    if (await User.findOne({ where: { email: body.email } })) {
+      throw new HttpError(409, 'email_taken', 'An account with this e-mail address exists already. Sign in instead.');
+    }
+    const user = await User.create({ email: body.email, displayName: body.displayName, passwordHash: await hashPassword(body.password) });
+    await signIn(req, res, user);
+    res.status(201).json({ user: user.toDto() });
+  });
+
+  router.post('/login', loginLimiter, async (req, res) => {
+    parseInput(loginBody, req.body);
+    const user = await new Promise<User>((resolve, reject) =>
+      passport.authenticate('local', { session: false }, (err: unknown, found: User | false, info?: { message: string }) => {
+        if (err) return reject(err);
+        if (!found) return reject(new HttpError(401, 'bad_credentials', info?.message ?? 'Sign-in failed.'));
+        resolve(found);
+      })(req, res),
+    );
+    await signIn(req, res, user);
+    res.json({ user: user.toDto() });
+  });
+
+  router.post('/logout', async (req, res) => {
+    await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())));
+    issueCsrfToken(req, res);
+    res.status(204).end();
+  });
+
+  router.get('/me', requireUser, (req, res) => {
+    res.json({ user: currentUser(req).toDto() });
+  });
+
+  return router;
+}

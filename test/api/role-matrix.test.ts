@@ -1,0 +1,116 @@
+// Every route, every role (and signed out): each gets what it should and nothing more.
+import assert from 'node:assert/strict';
+import { after, before, describe, test } from 'node:test';
+import { ApiClient, DEMO } from '../support/api-client.js';
+import { startTestServer, type TestServer } from '../support/test-server.js';
+
+type Who = 'anon' | 'outsider' | 'admin' | 'reader' | 'reviewer' | 'author' | 'owner';
+const EVERYONE: Who[] = ['anon', 'outsider', 'admin', 'reader', 'reviewer', 'author', 'owner'];
+
+interface Fixture {
+  groupId: number;
+  worksheetId: number;
+  ids: Record<string, number>;
+}
+
+interface Case {
+  name: string;
+  method: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+  path: (f: Fixture) => string;
+  body?: (f: Fixture) => unknown;
+  expect: Record<Who, number>;
+}
+
+// Non-members get 404 on group resources: a group's existence is not revealed.
+const read = { anon: 401, outsider: 404, admin: 404, reader: 200, reviewer: 200, author: 200, owner: 200 };
+const ownerOnly = (ok: number) => ({ anon: 401, outsider: 404, admin: 404, reader: 403, reviewer: 403, author: 403, owner: ok });
+const authors = (ok: number) => ({ anon: 401, outsider: 404, admin: 404, reader: 403, reviewer: 403, author: ok, owner: ok });
+
+const CASES: Case[] = [
+  { name: 'GET /api/auth/me', method: 'GET', path: () => '/api/auth/me', expect: { anon: 401, outsider: 200, admin: 200, reader: 200, reviewer: 200, author: 200, owner: 200 } },
+  { name: 'GET /api/groups', method: 'GET', path: () => '/api/groups', expect: { anon: 401, outsider: 200, admin: 200, reader: 200, reviewer: 200, author: 200, owner: 200 } },
+  { name: 'POST /api/groups', method: 'POST', path: () => '/api/groups', body: () => ({ name: 'Another group' }), expect: { anon: 401, outsider: 201, admin: 201, reader: 201, reviewer: 201, author: 201, owner: 201 } },
+  { name: 'GET /api/groups/:id', method: 'GET', path: (f) => `/api/groups/${f.groupId}`, expect: read },
+  { name: 'PATCH /api/groups/:id', method: 'PATCH', path: (f) => `/api/groups/${f.groupId}`, body: () => ({ name: 'Renamed' }), expect: ownerOnly(200) },
+  { name: 'DELETE /api/groups/:id', method: 'DELETE', path: (f) => `/api/groups/${f.groupId}`, expect: ownerOnly(204) },
+  { name: 'GET members', method: 'GET', path: (f) => `/api/groups/${f.groupId}/members`, expect: read },
+  { name: 'POST members', method: 'POST', path: (f) => `/api/groups/${f.groupId}/members`, body: () => ({ email: 'extra@matrix.test', role: 'reader' }), expect: ownerOnly(201) },
+  { name: 'PATCH member', method: 'PATCH', path: (f) => `/api/groups/${f.groupId}/members/${f.ids['reader']}`, body: () => ({ role: 'reviewer' }), expect: ownerOnly(200) },
+  { name: 'DELETE member', method: 'DELETE', path: (f) => `/api/groups/${f.groupId}/members/${f.ids['reader']}`, expect: ownerOnly(204) },
+  { name: 'GET worksheets', method: 'GET', path: (f) => `/api/groups/${f.groupId}/worksheets`, expect: read },
+  { name: 'POST worksheets', method: 'POST', path: (f) => `/api/groups/${f.groupId}/worksheets`, body: () => ({ title: 'New', source: 'note "x"' }), expect: authors(201) },
+  { name: 'GET worksheet', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}`, expect: read },
+  { name: 'PUT worksheet', method: 'PUT', path: (f) => `/api/worksheets/${f.worksheetId}`, body: () => ({ source: 'note "changed"', baseVersion: 1 }), expect: authors(200) },
+  { name: 'DELETE worksheet', method: 'DELETE', path: (f) => `/api/worksheets/${f.worksheetId}`, expect: authors(204) },
+  { name: 'GET versions', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/versions`, expect: read },
+  { name: 'GET /api/admin/users', method: 'GET', path: () => '/api/admin/users', expect: { anon: 401, outsider: 403, admin: 200, reader: 403, reviewer: 403, author: 403, owner: 403 } },
+  { name: 'PATCH /api/admin/users/:id', method: 'PATCH', path: (f) => `/api/admin/users/${f.ids['outsider']}`, body: () => ({ disabled: false }), expect: { anon: 401, outsider: 403, admin: 200, reader: 403, reviewer: 403, author: 403, owner: 403 } },
+  { name: 'POST /api/evaluate', method: 'POST', path: () => '/api/evaluate', body: () => ({ source: '# nothing' }), expect: { anon: 401, outsider: 200, admin: 200, reader: 200, reviewer: 200, author: 200, owner: 200 } },
+];
+
+let server: TestServer;
+const clients = new Map<Who, ApiClient>();
+const ids: Record<string, number> = {};
+
+before(async () => {
+  server = await startTestServer();
+  for (const who of EVERYONE) clients.set(who, new ApiClient(server.url));
+  const outsider = await clients.get('outsider')!.post('/api/auth/register', { email: 'outsider@matrix.test', displayName: 'Out Sider', password: 'outsider-password' });
+  assert.equal(outsider.status, 201);
+  ids['outsider'] = outsider.json.user.id;
+  const extra = await new ApiClient(server.url).post('/api/auth/register', { email: 'extra@matrix.test', displayName: 'Extra', password: 'extra-password' });
+  assert.equal(extra.status, 201);
+  for (const who of ['admin', 'reader', 'reviewer', 'author', 'owner'] as const) {
+    ids[who] = (await clients.get(who)!.login(DEMO[who])).id;
+  }
+});
+
+after(async () => {
+  await server?.stop();
+});
+
+/** A fresh group with one member per role and one worksheet, so destructive cases start clean. */
+async function freshFixture(): Promise<Fixture> {
+  const owner = clients.get('owner')!;
+  const group = await owner.post('/api/groups', { name: 'Matrix group' });
+  assert.equal(group.status, 201);
+  const groupId = group.json.group.id;
+  for (const role of ['author', 'reviewer', 'reader'] as const) {
+    const added = await owner.post(`/api/groups/${groupId}/members`, { email: DEMO[role], role });
+    assert.equal(added.status, 201, added.text);
+  }
+  const sheet = await owner.post(`/api/groups/${groupId}/worksheets`, { title: 'Matrix sheet', source: 'note "v1"' });
+  assert.equal(sheet.status, 201);
+  return { groupId, worksheetId: sheet.json.worksheet.id, ids };
+}
+
+describe('role matrix', () => {
+  for (const c of CASES) {
+    for (const who of EVERYONE) {
+      test(`${c.name} as ${who} → ${c.expect[who]}`, async () => {
+        const fixture = await freshFixture();
+        const res = await clients.get(who)!.request(c.method, c.path(fixture), c.body?.(fixture));
+        assert.equal(res.status, c.expect[who], `${c.method} ${c.path(fixture)} as ${who}: ${res.text}`);
+        if (res.status >= 400) {
+          assert.equal(typeof res.json?.error?.message, 'string', 'every error carries a message');
+          assert.ok(res.json.error.message.length > 10);
+        }
+      });
+    }
+  }
+});
+
+describe('what a role sees', () => {
+  test('the demo group is the first group each demo member sees', async () => {
+    for (const who of ['reader', 'reviewer', 'author', 'owner'] as const) {
+      const res = await clients.get(who)!.get('/api/groups');
+      assert.equal(res.json.groups[0].name, 'Lindqvist Lab — mode integrals');
+      assert.equal(res.json.groups[0].role, who);
+    }
+  });
+
+  test('an outsider does not see the demo group in the list', async () => {
+    const res = await clients.get('outsider')!.get('/api/groups');
+    assert.ok(!res.json.groups.some((g: { name: string }) => g.name.startsWith('Lindqvist')));
+  });
+});
