@@ -11,6 +11,7 @@ import { configurePassport } from './auth/passport.js';
 import type { ServerConfig } from './config.js';
 import type { EvaluationPool } from './evaluation/pool.js';
 import type { Logger } from './logger.js';
+import type { Mailer } from './mail/mailer.js';
 import { requireAdmin, requireUser } from './middleware/auth.js';
 import { csrfProtection } from './middleware/csrf.js';
 import { errorHandler, unknownApiRoute } from './middleware/error-handler.js';
@@ -18,6 +19,8 @@ import { adminRoutes } from './routes/admin.js';
 import { authRoutes } from './routes/auth.js';
 import { evaluateRoutes } from './routes/evaluate.js';
 import { groupRoutes } from './routes/groups.js';
+import { groupInvitationRoutes, invitationRoutes } from './routes/invitations.js';
+import { passwordResetRoutes } from './routes/password-reset.js';
 import { memberRoutes } from './routes/members.js';
 import { groupWorksheetRoutes, worksheetRoutes } from './routes/worksheets.js';
 
@@ -26,10 +29,11 @@ export interface AppDeps {
   logger: Logger;
   sessionPool: pg.Pool;
   evaluationPool: EvaluationPool;
+  mailer: Mailer;
 }
 
 /** The Express application: the JSON API under /api and the built client beside it. */
-export function createApp({ config, logger, sessionPool, evaluationPool }: AppDeps): Express {
+export function createApp({ config, logger, sessionPool, evaluationPool, mailer }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -79,6 +83,9 @@ export function createApp({ config, logger, sessionPool, evaluationPool }: AppDe
   api.get('/health', (_req, res) => {
     res.json({ ok: true });
   });
+  api.use('/auth/password-reset', passwordResetRoutes(config, mailer));
+  api.use('/invitations', invitationRoutes());
+  api.use('/groups/:groupId/invitations', requireUser, groupInvitationRoutes(config, mailer));
   api.use('/auth', authRoutes({ loginRateLimit: config.loginRateLimit }));
   api.use('/groups/:groupId/members', requireUser, memberRoutes());
   api.use('/groups/:groupId/worksheets', requireUser, groupWorksheetRoutes());

@@ -14,6 +14,8 @@ export interface ServerConfig {
   logLevel: string;
   /** Sign-in attempts per address and IP in the rate-limit window. */
   loginRateLimit: number;
+  /** The address people reach the product at; links in mail point there. */
+  publicUrl: string;
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
@@ -30,5 +32,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     secureCookies: env['SECURE_COOKIES'] === '1',
     logLevel: env['LOG_LEVEL'] ?? 'info',
     loginRateLimit: Number(env['LOGIN_RATE_LIMIT'] ?? 20),
+    publicUrl: (env['PUBLIC_URL'] ?? `http://127.0.0.1:${env['PORT'] ?? 4300}`).replace(/\/$/, ''),
   };
 }

@@ -1,11 +1,13 @@
 import type { Sequelize } from 'sequelize';
 import { Group } from './group.js';
+import { Invitation } from './invitation.js';
+import { PasswordReset } from './password-reset.js';
 import { Membership } from './membership.js';
 import { User } from './user.js';
 import { Worksheet } from './worksheet.js';
 import { WorksheetVersion } from './worksheet-version.js';
 
-export { Group, Membership, User, Worksheet, WorksheetVersion };
+export { Group, Invitation, Membership, PasswordReset, User, Worksheet, WorksheetVersion };
 
 /** Registers every model and its associations on the Sequelize instance. */
 export function initModels(sequelize: Sequelize): void {
@@ -14,6 +16,8 @@ export function initModels(sequelize: Sequelize): void {
   Membership.initModel(sequelize);
   Worksheet.initModel(sequelize);
   WorksheetVersion.initModel(sequelize);
+  Invitation.initModel(sequelize);
+  PasswordReset.initModel(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Group, { foreignKey: 'groupId', as: 'group' });
@@ -24,4 +28,6 @@ export function initModels(sequelize: Sequelize): void {
   Group.hasMany(Worksheet, { foreignKey: 'groupId', as: 'worksheets' });
   WorksheetVersion.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
   Worksheet.hasMany(WorksheetVersion, { foreignKey: 'worksheetId', as: 'versions' });
+  Invitation.belongsTo(User, { foreignKey: 'invitedById', as: 'invitedBy' });
+  Invitation.belongsTo(Group, { foreignKey: 'groupId', as: 'group' });
 }

@@ -3,6 +3,8 @@ import { adminUserPatchBody } from '../../shared/api.js';
 import { currentUser } from '../middleware/auth.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, parseInput } from '../middleware/validate.js';
+import { QueryTypes } from 'sequelize';
+import type { MailDeliveryDto, OutboxMessageDto } from '../../shared/collaboration.js';
 import { User } from '../models/index.js';
 
 /** Site administration; mounted behind requireAdmin. */
@@ -15,7 +17,7 @@ export function adminRoutes(): Router {
   });
 
   router.patch('/users/:id', async (req, res) => {
-    const id = idParam(req.params['id'], 'This account');
+    const id = idParam((req.params as Record<string, string>)['id'], 'This account');
     const body = parseInput(adminUserPatchBody, req.body);
     if (id === currentUser(req).id && body.disabled) {
       throw new HttpError(409, 'self_disable', 'You cannot disable your own account. Ask another site admin.');
@@ -25,6 +27,26 @@ export function adminRoutes(): Router {
     await user.update({ disabled: body.disabled });
     // A disabled account's sessions end: deserializeUser refuses it on the next request.
     res.json({ user: user.toDto() });
+  });
+
+  // What the local fake SMTP server received, newest first.
+  router.get('/outbox', async (_req, res) => {
+    const rows = await User.sequelize!.query<{ id: number; to_address: string; subject: string; text: string; html: string; received_at: Date }>(
+      'SELECT id, to_address, subject, text, html, received_at FROM captured_mail ORDER BY received_at DESC, id DESC LIMIT 500',
+      { type: QueryTypes.SELECT },
+    );
+    const messages: OutboxMessageDto[] = rows.map((r) => ({ id: r.id, to: r.to_address, subject: r.subject, text: r.text, html: r.html, sentAt: new Date(r.received_at).toISOString() }));
+    res.json({ messages });
+  });
+
+  // Delivery state of every mail the product sent: pending retries and failures show here.
+  router.get('/mail-deliveries', async (_req, res) => {
+    const rows = await User.sequelize!.query<{ id: number; to_address: string; subject: string; status: MailDeliveryDto['status']; attempts: number; last_error: string | null; created_at: Date }>(
+      'SELECT id, to_address, subject, status, attempts, last_error, created_at FROM mail_messages ORDER BY id DESC LIMIT 500',
+      { type: QueryTypes.SELECT },
+    );
+    const deliveries: MailDeliveryDto[] = rows.map((r) => ({ id: r.id, to: r.to_address, subject: r.subject, status: r.status, attempts: r.attempts, lastError: r.last_error, createdAt: new Date(r.created_at).toISOString() }));
+    res.json({ deliveries });
   });
 
   return router;

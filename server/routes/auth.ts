@@ -30,6 +30,8 @@ export function authRoutes(options: { loginRateLimit: number }): Router {
     limit: options.loginRateLimit,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
+    // Only failed attempts count: a group signing in from one address is not throttled.
+    skipSuccessfulRequests: true,
     keyGenerator: (req) => `${req.ip}|${String(req.body?.email ?? '').toLowerCase()}`,
     validate: { keyGeneratorIpFallback: false },
     message: tooMany('sign-in'),

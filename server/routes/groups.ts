@@ -53,14 +53,14 @@ export function groupRoutes(): Router {
   });
 
   router.get('/:groupId', async (req, res) => {
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     const role = await requireGroupRole(currentUser(req).id, groupId, 'read');
     const group = (await Group.findByPk(groupId))!;
     res.json({ group: await summary(group, role) });
   });
 
   router.patch('/:groupId', async (req, res) => {
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     const role = await requireGroupRole(currentUser(req).id, groupId, 'manageGroup');
     const body = parseInput(groupBody, req.body);
     const group = (await Group.findByPk(groupId))!;
@@ -69,7 +69,7 @@ export function groupRoutes(): Router {
   });
 
   router.delete('/:groupId', async (req, res) => {
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     await requireGroupRole(currentUser(req).id, groupId, 'manageGroup');
     await Group.destroy({ where: { id: groupId } });
     res.status(204).end();

@@ -24,14 +24,14 @@ export function memberRoutes(): Router {
   const router = Router({ mergeParams: true });
 
   router.get('/', async (req, res) => {
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     await requireGroupRole(currentUser(req).id, groupId, 'read');
     const members = await Membership.findAll({ where: { groupId }, include: [{ model: User, as: 'user' }], order: [['createdAt', 'ASC']] });
     res.json({ members: members.map(toDto) });
   });
 
   router.post('/', async (req, res) => {
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     await requireGroupRole(currentUser(req).id, groupId, 'manageMembers');
     const body = parseInput(addMemberBody, req.body);
     const user = await User.findOne({ where: { email: body.email } });
@@ -45,9 +45,9 @@ export function memberRoutes(): Router {
   });
 
   router.patch('/:userId', async (req, res) => {
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     await requireGroupRole(currentUser(req).id, groupId, 'manageMembers');
-    const userId = idParam(req.params['userId'], 'This member');
+    const userId = idParam((req.params as Record<string, string>)['userId'], 'This member');
     const body = parseInput(changeMemberBody, req.body);
     const membership = await Membership.findOne({ where: { groupId, userId }, include: [{ model: User, as: 'user' }] });
     if (!membership) throw notFound('This member');
@@ -57,9 +57,9 @@ export function memberRoutes(): Router {
   });
 
   router.delete('/:userId', async (req, res) => {
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     await requireGroupRole(currentUser(req).id, groupId, 'manageMembers');
-    const userId = idParam(req.params['userId'], 'This member');
+    const userId = idParam((req.params as Record<string, string>)['userId'], 'This member');
     const membership = await Membership.findOne({ where: { groupId, userId } });
     if (!membership) throw notFound('This member');
     await assertNotLastOwner(groupId, membership);

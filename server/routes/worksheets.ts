@@ -31,7 +31,7 @@ export function groupWorksheetRoutes(): Router {
   const router = Router({ mergeParams: true });
 
   router.get('/', async (req, res) => {
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     await requireGroupRole(currentUser(req).id, groupId, 'read');
     const query = parseInput(worksheetListQuery, req.query);
     const where = {
@@ -53,7 +53,7 @@ export function groupWorksheetRoutes(): Router {
 
   router.post('/', async (req, res) => {
     const user = currentUser(req);
-    const groupId = idParam(req.params['groupId'], 'This group');
+    const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     const role = await requireGroupRole(user.id, groupId, 'editWorksheets');
     const body = parseInput(createWorksheetBody, req.body);
     const worksheet = await Worksheet.sequelize!.transaction(async (transaction) => {
@@ -73,7 +73,7 @@ export function worksheetRoutes(): Router {
   const router = Router();
 
   router.get('/:id', async (req, res) => {
-    const id = idParam(req.params['id'], 'This worksheet');
+    const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
     const { role } = await requireWorksheetRole(currentUser(req).id, id, 'read');
     const worksheet = (await Worksheet.findByPk(id, withAuthor))!;
     res.json({ worksheet: detail(worksheet, role) });
@@ -81,7 +81,7 @@ export function worksheetRoutes(): Router {
 
   router.put('/:id', async (req, res) => {
     const user = currentUser(req);
-    const id = idParam(req.params['id'], 'This worksheet');
+    const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
     const { role } = await requireWorksheetRole(user.id, id, 'editWorksheets');
     const body = parseInput(saveWorksheetBody, req.body);
     // The row lock makes concurrent saves queue up: each sees the version the one
@@ -109,14 +109,14 @@ export function worksheetRoutes(): Router {
   });
 
   router.delete('/:id', async (req, res) => {
-    const id = idParam(req.params['id'], 'This worksheet');
+    const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
     const { worksheet } = await requireWorksheetRole(currentUser(req).id, id, 'editWorksheets');
     await worksheet.destroy();
     res.status(204).end();
   });
 
   router.get('/:id/versions', async (req, res) => {
-    const id = idParam(req.params['id'], 'This worksheet');
+    const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
     await requireWorksheetRole(currentUser(req).id, id, 'read');
     const versions = await WorksheetVersion.findAll({
       where: { worksheetId: id },

@@ -1,11 +1,16 @@
 import { ApplicationConfig, provideBrowserGlobalErrorListeners } from '@angular/core';
-import { provideRouter } from '@angular/router';
+import { provideHttpClient, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
+import { provideRouter, withComponentInputBinding, withInMemoryScrolling } from '@angular/router';
 
 import { routes } from './app.routes';
+import { loadingInterceptor } from './core/loading/loading-interceptor';
+import { sessionInterceptor } from './core/auth/session-interceptor';
 
 export const appConfig: ApplicationConfig = {
   providers: [
     provideBrowserGlobalErrorListeners(),
-    provideRouter(routes)
-  ]
+    provideRouter(routes, withComponentInputBinding(), withInMemoryScrolling({ scrollPositionRestoration: 'top' })),
+    // Default cookie/header names: XSRF-TOKEN cookie, X-XSRF-TOKEN header.
+    provideHttpClient(withXsrfConfiguration({}), withInterceptors([loadingInterceptor, sessionInterceptor])),
+  ],
 };

@@ -1,12 +1,21 @@
-import { Component, signal } from '@angular/core';
-import { RouterOutlet } from '@angular/router';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatToolbarModule } from '@angular/material/toolbar';
+import { RouterLink, RouterOutlet } from '@angular/router';
+import { AuthStore } from './core/auth/auth-store';
+import { LoadingTracker } from './core/loading/loading-tracker';
+import { AccountMenu } from './layout/account-menu/account-menu';
+import { Logo } from './layout/logo/logo';
 
+/** The frame around every screen: the bar with the name and account menu, the fetch indicator. */
 @Component({
   selector: 'app-root',
-  imports: [RouterOutlet],
+  imports: [RouterOutlet, RouterLink, MatToolbarModule, MatProgressBarModule, AccountMenu, Logo],
   templateUrl: './app.html',
-  styleUrl: './app.scss'
+  styleUrl: './app.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class App {
-  protected readonly title = signal('sheetwise');
+  protected readonly auth = inject(AuthStore);
+  protected readonly loading = inject(LoadingTracker);
 }

@@ -1,0 +1,25 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+
+/** A single-use password reset; the link's token is stored only as a hash. */
+export class PasswordReset extends Model<InferAttributes<PasswordReset>, InferCreationAttributes<PasswordReset>> {
+  declare id: CreationOptional<number>;
+  declare userId: number;
+  declare tokenHash: string;
+  declare expiresAt: Date;
+  declare usedAt: CreationOptional<Date | null>;
+  declare createdAt: CreationOptional<Date>;
+
+  static initModel(sequelize: Sequelize) {
+    PasswordReset.init(
+      {
+        id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
+        userId: { type: DataTypes.INTEGER, allowNull: false },
+        tokenHash: { type: DataTypes.STRING(64), allowNull: false },
+        expiresAt: { type: DataTypes.DATE, allowNull: false },
+        usedAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'password_resets', updatedAt: false },
+    );
+  }
+}
