@@ -90,7 +90,7 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   api.use('/groups/:groupId/members', requireUser, memberRoutes());
   api.use('/groups/:groupId/worksheets', requireUser, groupWorksheetRoutes());
   api.use('/groups', requireUser, groupRoutes());
-  api.use('/worksheets', requireUser, worksheetRoutes());
+  api.use('/worksheets', requireUser, worksheetRoutes(evaluationPool));
   api.use('/evaluate', requireUser, evaluateRoutes(evaluationPool));
   api.use('/admin', requireAdmin, adminRoutes());
   api.use(unknownApiRoute);

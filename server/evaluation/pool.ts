@@ -9,6 +9,22 @@ interface Job {
   timedOut: number[];
   resolve: (report: WorksheetReport) => void;
   reject: (err: Error) => void;
+  onProgress?: (progress: { index: number; line: number }) => void;
+  signal?: AbortSignal;
+  /** Set while a worker runs the job: stops it at once. */
+  cancel?: () => void;
+}
+
+export interface EvaluateCallOptions {
+  /** Aborting (the client went away, or pressed cancel) stops the work. */
+  signal?: AbortSignal;
+  onProgress?: (progress: { index: number; line: number }) => void;
+}
+
+export class EvaluationCancelled extends Error {
+  constructor() {
+    super('The evaluation was cancelled.');
+  }
 }
 
 export interface PoolOptions {
@@ -32,10 +48,22 @@ export class EvaluationPool {
 
   constructor(private readonly options: PoolOptions) {}
 
-  evaluate(source: string): Promise<WorksheetReport> {
+  evaluate(source: string, options: EvaluateCallOptions = {}): Promise<WorksheetReport> {
     if (this.closed) return Promise.reject(new Error('The evaluation pool is shut down.'));
+    if (options.signal?.aborted) return Promise.reject(new EvaluationCancelled());
     return new Promise((resolve, reject) => {
-      this.queue.push({ source, timedOut: [], resolve, reject });
+      const job: Job = { source, timedOut: [], resolve, reject, onProgress: options.onProgress, signal: options.signal };
+      options.signal?.addEventListener(
+        'abort',
+        () => {
+          const queued = this.queue.indexOf(job);
+          if (queued >= 0) this.queue.splice(queued, 1);
+          job.cancel?.();
+          reject(new EvaluationCancelled());
+        },
+        { once: true },
+      );
+      this.queue.push(job);
       this.dispatch();
     });
   }
@@ -83,7 +111,7 @@ export class EvaluationPool {
       worker.off('exit', onExit);
     };
     const retire = (why: string) => {
-      if (settled) return;
+      if (settled || job.signal?.aborted) return;
       cleanup();
       this.workers.delete(worker);
       void worker.terminate();
@@ -95,9 +123,17 @@ export class EvaluationPool {
       }
       this.dispatch();
     };
+    job.cancel = () => {
+      if (settled) return;
+      cleanup();
+      this.workers.delete(worker);
+      void worker.terminate();
+      this.dispatch();
+    };
     const onMessage = (message: WorkerMessage) => {
       if (message.type === 'start') {
         current = message.index;
+        job.onProgress?.({ index: message.index, line: message.line });
         arm();
       } else {
         cleanup();

@@ -9,6 +9,11 @@ export const unknownApiRoute: RequestHandler = (req, _res, next) => {
 /** Turns every error into `{ error: { code, message } }`; no stack trace leaves the server. */
 export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (err, req, res, _next) => {
+    // A streamed answer (server-sent events) has begun: nothing more can be said.
+    if (res.headersSent) {
+      res.end();
+      return;
+    }
     if (err instanceof HttpError) {
       res.status(err.status).json({ error: { code: err.code, message: err.message }, ...err.extra });
       return;

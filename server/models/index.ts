@@ -1,4 +1,5 @@
 import type { Sequelize } from 'sequelize';
+import { Evaluation } from './evaluation.js';
 import { Group } from './group.js';
 import { Invitation } from './invitation.js';
 import { PasswordReset } from './password-reset.js';
@@ -7,7 +8,7 @@ import { User } from './user.js';
 import { Worksheet } from './worksheet.js';
 import { WorksheetVersion } from './worksheet-version.js';
 
-export { Group, Invitation, Membership, PasswordReset, User, Worksheet, WorksheetVersion };
+export { Evaluation, Group, Invitation, Membership, PasswordReset, User, Worksheet, WorksheetVersion };
 
 /** Registers every model and its associations on the Sequelize instance. */
 export function initModels(sequelize: Sequelize): void {
@@ -17,6 +18,7 @@ export function initModels(sequelize: Sequelize): void {
   Worksheet.initModel(sequelize);
   WorksheetVersion.initModel(sequelize);
   Invitation.initModel(sequelize);
+  Evaluation.initModel(sequelize);
   PasswordReset.initModel(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });

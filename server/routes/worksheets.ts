@@ -12,7 +12,9 @@ import { currentUser } from '../middleware/auth.js';
 import { requireGroupRole, requireWorksheetRole } from '../middleware/group-access.js';
 import { HttpError } from '../middleware/http-error.js';
 import { idParam, parseInput } from '../middleware/validate.js';
-import { User, Worksheet, WorksheetVersion } from '../models/index.js';
+import { Evaluation, User, Worksheet, WorksheetVersion } from '../models/index.js';
+import type { EvaluationPool } from '../evaluation/pool.js';
+import { evaluateForRequest } from './evaluate.js';
 
 const summary = (w: Worksheet): WorksheetSummaryDto => ({
   id: w.id,
@@ -69,8 +71,33 @@ export function groupWorksheetRoutes(): Router {
 }
 
 /** Routes under /api/worksheets/:id. */
-export function worksheetRoutes(): Router {
+export function worksheetRoutes(pool: EvaluationPool): Router {
   const router = Router();
+
+  // The stored report of the current version, so a reopened worksheet shows results at once.
+  router.get('/:id/evaluation', async (req, res) => {
+    const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
+    const { worksheet } = await requireWorksheetRole(currentUser(req).id, id, 'read');
+    const stored = await Evaluation.findOne({ where: { worksheetId: id, version: worksheet.version } });
+    if (!stored) throw new HttpError(404, 'not_evaluated', `Version ${worksheet.version} has not been evaluated yet. Evaluate it to see its results.`);
+    res.json({ version: stored.version, report: stored.report });
+  });
+
+  // Evaluates the current saved version and keeps the report with it.
+  router.post('/:id/evaluation', async (req, res) => {
+    const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
+    const { worksheet } = await requireWorksheetRole(currentUser(req).id, id, 'read');
+    const stored = await Evaluation.findOne({ where: { worksheetId: id, version: worksheet.version } });
+    if (stored && req.query['fresh'] !== '1') {
+      res.json({ version: stored.version, report: stored.report });
+      return;
+    }
+    const report = await evaluateForRequest(pool, worksheet.source, req, res);
+    if (!report) return;
+    // Two readers evaluating the same version at once both store: keep the first.
+    await Evaluation.upsert({ worksheetId: id, version: worksheet.version, report }, { conflictFields: ['worksheet_id', 'version'] } as never);
+    if (!res.headersSent) res.json({ version: worksheet.version, report });
+  });
 
   router.get('/:id', async (req, res) => {
     const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
