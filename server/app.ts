@@ -62,7 +62,7 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   );
 
   const PgStore = connectPgSimple(session);
-  const passport = configurePassport();
+  const passport = configurePassport(mailer, () => config.publicUrl);
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
   api.use(cookieParser());

@@ -20,10 +20,21 @@ export const LIMITS = {
   passwordMax: 200,
   groupNameLength: 120,
   worksheetTitleLength: 200,
-  /** Worksheet source, in characters. */
-  worksheetSourceLength: 200_000,
   searchLength: 200,
   pageSizeMax: 100,
+  /** Evaluation limits, checked before any computation starts. */
+  worksheetBytes: 200 * 1024,
+  /** The client's check before saving (characters; the server counts UTF-8 bytes). */
+  worksheetSourceLength: 200 * 1024,
+  statementsPerWorksheet: 400,
+  statementLength: 20_000,
+  expressionDepth: 64,
+  /** Integration variables of one integral whose coefficients hold params (symbolic work grows fast). */
+  symbolicVariables: 6,
+  /** Integration variables of one integral with numbers only. */
+  numericVariables: 400,
+  /** Consecutive failed sign-ins after which an account is locked until unlocked by e-mail. */
+  failedSignInsBeforeLock: 10,
 } as const;
 
 const email = z.string().trim().toLowerCase().max(LIMITS.emailLength).email('Enter a valid e-mail address.');
@@ -70,19 +81,19 @@ export type WorksheetListQuery = z.infer<typeof worksheetListQuery>;
 
 export const createWorksheetBody = z.object({
   title: z.string().trim().min(1, 'Enter a title.').max(LIMITS.worksheetTitleLength),
-  source: z.string().max(LIMITS.worksheetSourceLength).optional().default(''),
+  source: z.string().optional().default(''),
 });
 export type CreateWorksheetBody = z.infer<typeof createWorksheetBody>;
 
 /** A save names the version it was based on; a stale base gets 409. */
 export const saveWorksheetBody = z.object({
   title: z.string().trim().min(1, 'Enter a title.').max(LIMITS.worksheetTitleLength).optional(),
-  source: z.string().max(LIMITS.worksheetSourceLength),
+  source: z.string(),
   baseVersion: z.number().int().min(1),
 });
 export type SaveWorksheetBody = z.infer<typeof saveWorksheetBody>;
 
-export const evaluateBody = z.object({ source: z.string().max(LIMITS.worksheetSourceLength) });
+export const evaluateBody = z.object({ source: z.string() });
 export type EvaluateBody = z.infer<typeof evaluateBody>;
 
 export const adminUserPatchBody = z.object({ disabled: z.boolean() });

@@ -28,3 +28,12 @@ export function passwordResetMail(o: { to: string; link: string; minutes: number
     { href: o.link, label: 'Choose a new password' },
   );
 }
+
+export function unlockMail(o: { to: string; link: string; failures: number }): MailContent {
+  return compose(
+    o.to,
+    'Your Sheetwise account was locked',
+    [`Hello,`, `After ${o.failures} failed sign-ins in a row, this Sheetwise account is locked. If you tried to sign in, unlock it with the link below; if not, unlock it and then change your password.`],
+    { href: o.link, label: 'Unlock the account' },
+  );
+}

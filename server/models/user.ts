@@ -8,6 +8,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare passwordHash: string;
   declare siteRole: CreationOptional<SiteRole>;
   declare disabled: CreationOptional<boolean>;
+  declare failedSignIns: CreationOptional<number>;
+  declare lockedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -24,6 +26,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         passwordHash: { type: DataTypes.STRING(100), allowNull: false },
         siteRole: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'user' },
         disabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        failedSignIns: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        lockedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

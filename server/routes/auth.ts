@@ -1,13 +1,18 @@
 import { Router, type Request, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import passport from 'passport';
+import { QueryTypes } from 'sequelize';
+import { z } from 'zod';
 import { loginBody, registerBody } from '../../shared/api.js';
+import { hashToken } from '../auth/tokens.js';
 import { hashPassword } from '../auth/password.js';
 import { currentUser, requireUser } from '../middleware/auth.js';
 import { HttpError } from '../middleware/http-error.js';
 import { parseInput } from '../middleware/validate.js';
 import { User } from '../models/index.js';
 import { issueCsrfToken } from '../middleware/csrf.js';
+
+const unlockBody = z.object({ token: z.string().min(10).max(200) });
 
 function signIn(req: Request, res: Response, user: User): Promise<void> {
   // passport regenerates the session here (a new id at sign-in: no session fixation).
@@ -65,6 +70,22 @@ export function authRoutes(options: { loginRateLimit: number }): Router {
     );
     await signIn(req, res, user);
     res.json({ user: user.toDto() });
+  });
+
+  // The link from the lockout mail: single use, 7 days.
+  router.post('/unlock', async (req, res) => {
+    const { token } = parseInput(unlockBody, req.body);
+    const unlocked = await User.sequelize!.transaction(async (transaction) => {
+      const [row] = await User.sequelize!.query<{ id: number; user_id: number }>(
+        `UPDATE account_unlocks SET used_at = now() WHERE token_hash = $1 AND used_at IS NULL AND expires_at > now() RETURNING id, user_id`,
+        { bind: [hashToken(token)], type: QueryTypes.SELECT, transaction },
+      );
+      if (!row) return false;
+      await User.update({ lockedAt: null, failedSignIns: 0 }, { where: { id: row.user_id }, transaction });
+      return true;
+    });
+    if (!unlocked) throw new HttpError(400, 'unlock_invalid', 'This unlock link is not valid any more (used, expired or mistyped). Try to sign in to get a new one.');
+    res.json({ message: 'The account is unlocked. Sign in with your password.' });
   });
 
   router.post('/logout', async (req, res) => {

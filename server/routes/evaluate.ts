@@ -3,6 +3,7 @@ import { evaluateBody } from '../../shared/api.js';
 import type { WorksheetReport } from '../../shared/evaluation.js';
 import { EvaluationCancelled, type EvaluationPool } from '../evaluation/pool.js';
 import { parseInput } from '../middleware/validate.js';
+import { checkEvaluationLimits } from '../evaluation/limits.js';
 
 /** One statement a line, blank lines and comments aside: the total for progress reports. */
 export function countStatements(source: string): number {
@@ -45,6 +46,7 @@ export function evaluateRoutes(pool: EvaluationPool): Router {
   const router = Router();
   router.post('/', async (req, res) => {
     const { source } = parseInput(evaluateBody, req.body);
+    checkEvaluationLimits(source);
     try {
       const report = await evaluateForRequest(pool, source, req, res);
       if (report && !res.headersSent) res.json(report);

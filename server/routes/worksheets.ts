@@ -15,6 +15,7 @@ import { idParam, parseInput } from '../middleware/validate.js';
 import { Evaluation, User, Worksheet, WorksheetVersion } from '../models/index.js';
 import type { EvaluationPool } from '../evaluation/pool.js';
 import { evaluateForRequest } from './evaluate.js';
+import { checkEvaluationLimits, checkWorksheetSize } from '../evaluation/limits.js';
 
 const summary = (w: Worksheet): WorksheetSummaryDto => ({
   id: w.id,
@@ -58,6 +59,7 @@ export function groupWorksheetRoutes(): Router {
     const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     const role = await requireGroupRole(user.id, groupId, 'editWorksheets');
     const body = parseInput(createWorksheetBody, req.body);
+    checkWorksheetSize(body.source);
     const worksheet = await Worksheet.sequelize!.transaction(async (transaction) => {
       const created = await Worksheet.create({ groupId, title: body.title, source: body.source, updatedById: user.id }, { transaction });
       await WorksheetVersion.create({ worksheetId: created.id, number: 1, title: body.title, source: body.source, authorId: user.id }, { transaction });
@@ -92,6 +94,7 @@ export function worksheetRoutes(pool: EvaluationPool): Router {
       res.json({ version: stored.version, report: stored.report });
       return;
     }
+    checkEvaluationLimits(worksheet.source);
     const report = await evaluateForRequest(pool, worksheet.source, req, res);
     if (!report) return;
     // Two readers evaluating the same version at once both store: keep the first.
@@ -111,6 +114,7 @@ export function worksheetRoutes(pool: EvaluationPool): Router {
     const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
     const { role } = await requireWorksheetRole(user.id, id, 'editWorksheets');
     const body = parseInput(saveWorksheetBody, req.body);
+    checkWorksheetSize(body.source);
     // The row lock makes concurrent saves queue up: each sees the version the one
     // before it wrote, so exactly one save per base version lands.
     const saved = await Worksheet.sequelize!.transaction(async (transaction) => {

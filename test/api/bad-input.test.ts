@@ -42,9 +42,9 @@ describe('bad input', () => {
     assertError(res, 400, /at most 200 characters/);
   });
 
-  test('too-long source → 400 with the limit', async () => {
-    const res = await author.put(`/api/worksheets/${worksheetId}`, { source: 'x'.repeat(200_001), baseVersion: 1 });
-    assertError(res, 400, /200000 characters/);
+  test('a worksheet over 200 kB → 413 naming the limit', async () => {
+    const res = await author.put(`/api/worksheets/${worksheetId}`, { source: '# ' + 'x'.repeat(210_000), baseVersion: 1 });
+    assertError(res, 413, /the limit is 200 kB/);
   });
 
   test('a body over 1 MB → 413', async () => {
