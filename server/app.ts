@@ -69,11 +69,12 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   api.use(
     session({
       name: 'sheetwise.sid',
-      store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false }),
+      // No write per request: a session lasts 14 days from sign-in.
+      store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, disableTouch: true }),
       secret: config.sessionSecret,
       resave: false,
       saveUninitialized: false,
-      rolling: true,
+      rolling: false,
       cookie: { httpOnly: true, sameSite: 'lax', secure: config.secureCookies, maxAge: 14 * 24 * 3600_000 },
     }),
   );

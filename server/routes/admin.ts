@@ -1,3 +1,4 @@
+import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { Router } from 'express';
 import { adminUserPatchBody } from '../../shared/api.js';
 import { currentUser } from '../middleware/auth.js';
@@ -8,8 +9,21 @@ import type { MailDeliveryDto, OutboxMessageDto } from '../../shared/collaborati
 import { User } from '../models/index.js';
 
 /** Site administration; mounted behind requireAdmin. */
+const loopDelay = monitorEventLoopDelay({ resolution: 10 });
+loopDelay.enable();
+
 export function adminRoutes(): Router {
   const router = Router();
+
+  // Event-loop delay since the last reset: evaluation must not block the loop.
+  router.get('/metrics', (req, res) => {
+    const ms = (ns: number) => Math.round(ns / 1e4) / 100;
+    res.json({
+      eventLoopDelayMs: { p50: ms(loopDelay.percentile(50)), p99: ms(loopDelay.percentile(99)), max: ms(loopDelay.max) },
+      memoryMb: Math.round(process.memoryUsage().rss / 1048576),
+    });
+    if (req.query['reset'] === '1') loopDelay.reset();
+  });
 
   router.get('/users', async (_req, res) => {
     const users = await User.findAll({ order: [['id', 'ASC']] });

@@ -45,6 +45,13 @@ const CASES: Case[] = [
   { name: 'GET versions', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/versions`, expect: read },
   { name: 'GET /api/admin/users', method: 'GET', path: () => '/api/admin/users', expect: { anon: 401, outsider: 403, admin: 200, reader: 403, reviewer: 403, author: 403, owner: 403 } },
   { name: 'PATCH /api/admin/users/:id', method: 'PATCH', path: (f) => `/api/admin/users/${f.ids['outsider']}`, body: () => ({ disabled: false }), expect: { anon: 401, outsider: 403, admin: 200, reader: 403, reviewer: 403, author: 403, owner: 403 } },
+  { name: 'GET /api/admin/outbox', method: 'GET', path: () => '/api/admin/outbox', expect: { anon: 401, outsider: 403, admin: 200, reader: 403, reviewer: 403, author: 403, owner: 403 } },
+  { name: 'GET /api/admin/mail-deliveries', method: 'GET', path: () => '/api/admin/mail-deliveries', expect: { anon: 401, outsider: 403, admin: 200, reader: 403, reviewer: 403, author: 403, owner: 403 } },
+  { name: 'GET /api/admin/metrics', method: 'GET', path: () => '/api/admin/metrics', expect: { anon: 401, outsider: 403, admin: 200, reader: 403, reviewer: 403, author: 403, owner: 403 } },
+  { name: 'GET invitations', method: 'GET', path: (f) => `/api/groups/${f.groupId}/invitations`, expect: ownerOnly(200) },
+  { name: 'POST invitations', method: 'POST', path: (f) => `/api/groups/${f.groupId}/invitations`, body: () => ({ email: 'invitee@matrix.test', role: 'reader' }), expect: ownerOnly(201) },
+  { name: 'GET evaluation (none stored yet)', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/evaluation`, expect: { anon: 401, outsider: 404, admin: 404, reader: 404, reviewer: 404, author: 404, owner: 404 } },
+  { name: 'POST evaluation', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/evaluation`, expect: read },
   { name: 'POST /api/evaluate', method: 'POST', path: () => '/api/evaluate', body: () => ({ source: '# nothing' }), expect: { anon: 401, outsider: 200, admin: 200, reader: 200, reviewer: 200, author: 200, owner: 200 } },
 ];
 
@@ -112,5 +119,22 @@ describe('what a role sees', () => {
   test('an outsider does not see the demo group in the list', async () => {
     const res = await clients.get('outsider')!.get('/api/groups');
     assert.ok(!res.json.groups.some((g: { name: string }) => g.name.startsWith('Lindqvist')));
+  });
+});
+
+describe('stored evaluations', () => {
+  test('a reader evaluates the current version once; reopening gets the stored report', async () => {
+    const fixture = await freshFixture();
+    const reader = clients.get('reader')!;
+    assert.equal((await reader.get(`/api/worksheets/${fixture.worksheetId}/evaluation`)).status, 404);
+    const made = await reader.post(`/api/worksheets/${fixture.worksheetId}/evaluation`);
+    assert.equal(made.status, 200);
+    assert.equal(made.json.version, 1);
+    assert.equal(made.json.report.statements[0].kind, 'note');
+    const stored = await reader.get(`/api/worksheets/${fixture.worksheetId}/evaluation`);
+    assert.deepEqual(stored.json, made.json);
+    // A new version has no stored report until it is evaluated.
+    await clients.get('author')!.put(`/api/worksheets/${fixture.worksheetId}`, { source: 'note "v2"', baseVersion: 1 });
+    assert.equal((await reader.get(`/api/worksheets/${fixture.worksheetId}/evaluation`)).status, 404);
   });
 });

@@ -1,0 +1,92 @@
+// The API under load on 127.0.0.1 (a benchmark, never a test): 50 signed-in clients
+// listing worksheets and opening one; then the same while 20 heavy evaluations run.
+// The server runs as a child process, so the load generator does not share its loop.
+import { spawn } from 'node:child_process';
+import autocannon from 'autocannon';
+import { ApiClient, DEMO } from '../test/support/api-client.js';
+import { createTestDatabase } from '../test/support/test-database.js';
+
+const DURATION = Number(process.env['BENCH_SECONDS'] ?? 8);
+const HEAVY = `param k : positive
+param g : real
+param h : real
+integral Z3 = exp(-(k*x^2 + k*y^2 + k*z^2 + 2*i*g*x*y + 2*i*h*y*z)/2) d(x, y, z)
+integral Z2 = exp(-(k*a^2 + 2*i*g*a*b + k*b^2)/2 + h*a) d(a, b)
+integral N3 = exp(-((1/3 + i)*x^2 + (1/3 + i)*y^2 + (1/3 + i)*z^2)/2) d(x, y, z)
+`;
+
+const db = await createTestDatabase('bench');
+const port = 30000 + Math.floor(Math.random() * 10000);
+const server = spawn('node_modules/.bin/tsx', ['server/main.ts'], {
+  env: { ...process.env, DATABASE_URL: db.url, PORT: String(port), SHEETWISE_SEED_DEMO: '1', LOG_LEVEL: 'silent', LOGIN_RATE_LIMIT: '1000' },
+  stdio: ['ignore', 'ignore', 'inherit', 'ipc'],
+});
+await new Promise<void>((resolve, reject) => {
+  server.on('message', (m: { type?: string }) => m?.type === 'ready' && resolve());
+  server.on('exit', (code) => reject(new Error(`server exited with ${code}`)));
+});
+const base = `http://127.0.0.1:${port}`;
+
+const sessions = await Promise.all(
+  Array.from({ length: 50 }, async (_, n) => {
+    const c = new ApiClient(base);
+    await c.login(n % 2 ? DEMO.author : DEMO.reader);
+    return c;
+  }),
+);
+const groupId = (await sessions[0]!.get('/api/groups')).json.groups[0].id;
+const worksheetId = (await sessions[0]!.get(`/api/groups/${groupId}/worksheets`)).json.items[0].id;
+const cookieOf = (c: ApiClient) => [...c.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
+const admin = new ApiClient(base);
+await admin.login(DEMO.admin);
+
+function load(title: string, paths: string[]): Promise<autocannon.Result> {
+  let next = 0;
+  return autocannon({
+    url: base,
+    title,
+    connections: 50,
+    duration: DURATION,
+    requests: paths.map((path) => ({ method: 'GET', path })),
+    // Each connection is its own signed-in session.
+    setupClient: (client) => client.setHeaders({ cookie: cookieOf(sessions[next++ % sessions.length]!) }),
+  });
+}
+
+const summary = (r: autocannon.Result) => ({
+  requestsPerSecond: Math.round(r.requests.average),
+  p50Ms: r.latency.p50,
+  p99Ms: r.latency.p99,
+  errors: r.errors + r.non2xx,
+});
+
+const listAndOpen = await load('list and open', [`/api/groups/${groupId}/worksheets`, `/api/worksheets/${worksheetId}`]);
+
+await admin.get('/api/admin/metrics?reset=1');
+let evaluations = 0;
+let evaluating = true;
+const evaluators = Array.from({ length: 20 }, async (_, n) => {
+  while (evaluating) {
+    const res = await sessions[n]!.post('/api/evaluate', { source: HEAVY + `note "run ${n}-${evaluations}"` });
+    if (res.status === 200) evaluations++;
+  }
+});
+const listDuringEvaluation = await load('list while evaluating', [`/api/groups/${groupId}/worksheets`]);
+evaluating = false;
+await Promise.all(evaluators);
+const metrics = (await admin.get('/api/admin/metrics')).json;
+
+server.kill('SIGTERM');
+await new Promise((r) => server.once('exit', r));
+await db.drop();
+
+const result = {
+  listAndOpen: summary(listAndOpen),
+  listDuringEvaluation: { ...summary(listDuringEvaluation), evaluationsCompleted: evaluations, eventLoopDelayMs: metrics.eventLoopDelayMs },
+};
+console.log('scenario                         req/s   p50 ms   p99 ms   errors');
+for (const [name, r] of Object.entries(result)) {
+  console.log(`${name.padEnd(32)} ${String(r.requestsPerSecond).padStart(5)}   ${String(r.p50Ms).padStart(6)}   ${String(r.p99Ms).padStart(6)}   ${r.errors}`);
+}
+console.log(`evaluations completed meanwhile: ${evaluations}; server event-loop delay p99 ${metrics.eventLoopDelayMs.p99} ms, max ${metrics.eventLoopDelayMs.max} ms`);
+console.log(`BENCH_JSON ${JSON.stringify({ apiLoad: result })}`);
