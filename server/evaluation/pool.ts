@@ -2,7 +2,7 @@ import { Worker } from 'node:worker_threads';
 import type { WorksheetReport } from '../../shared/evaluation.js';
 import type { EvaluationTask, WorkerMessage } from './worker.js';
 
-const WORKER_URL = new URL('./worker.ts', import.meta.url);
+const WORKER_URL = new URL('./worker-entry.mjs', import.meta.url);
 
 interface Job {
   source: string;
@@ -148,7 +148,8 @@ export class EvaluationPool {
     worker.on('message', onMessage);
     worker.on('error', onError);
     worker.on('exit', onExit);
-    arm();
+    // Before the first statement starts, the worker may still be loading the core.
+    timer = setTimeout(() => retire('it did not start within 30 s'), Math.max(limit, 30_000));
     worker.postMessage({ source: job.source, timeLimitMsPerStatement: limit, timedOut: job.timedOut } satisfies EvaluationTask);
   }
 }

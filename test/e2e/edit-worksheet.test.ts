@@ -1,12 +1,17 @@
 // End to end in Debian's Chromium: an author edits and saves; a reader cannot.
 import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
-import type { Browser } from 'playwright-core';
+import type { Browser, Page } from 'playwright-core';
 import { DEMO } from '../support/api-client.js';
 import { launchBrowser, screenshot, signIn } from '../support/browser.js';
 import { startTestServer, type TestServer } from '../support/test-server.js';
 
 let server: TestServer;
+
+/** The text of the editor model, through the hook the editor puts on its host element. */
+function editorText(page: Page): Promise<string> {
+  return page.evaluate(() => (document.querySelector('[data-testid="editor"]') as unknown as { sheetwiseText(): string }).sheetwiseText());
+}
 let browser: Browser;
 
 before(async () => {
@@ -38,17 +43,21 @@ test('the demo author opens a worksheet, changes it, saves, reloads and sees the
   await page.waitForURL(/\/groups\/\d+/);
   await page.getByRole('link', { name: 'Driven mode with a complex stiffness' }).click();
   await page.waitForURL(/\/worksheets\/\d+/);
-  const source = page.getByTestId('worksheet-source');
-  await source.waitFor();
-  assert.match(await source.inputValue(), /integral Zdrive/);
+  await page.locator('[data-testid="editor"][data-ready="true"]').waitFor();
+  assert.match(await editorText(page), /integral Zdrive/);
   const added = `note "Checked on ${Date.now()}"`;
-  await source.fill((await source.inputValue()) + `${added}\n`);
-  await page.getByTestId('save-worksheet').click();
-  await page.getByTestId('save-status').filter({ hasText: /saved/i }).waitFor();
+  // Type through Monaco at the end of the source, on a line of its own.
+  await page.locator('[data-testid="editor"] .view-lines').click();
+  await page.keyboard.press('Control+End');
+  if (!(await editorText(page)).endsWith('\n')) await page.keyboard.press('Enter');
+  await page.keyboard.type(added, { delay: 5 });
+  await page.keyboard.press('Escape');
+  await page.keyboard.press('Control+s');
+  await page.getByTestId('save-status').filter({ hasText: /Saved · version/ }).waitFor();
   await screenshot(page, 'worksheet-saved');
   await page.reload();
-  await page.getByTestId('worksheet-source').waitFor();
-  assert.ok((await page.getByTestId('worksheet-source').inputValue()).includes(added), 'the saved text is there after a reload');
+  await page.locator('[data-testid="editor"][data-ready="true"]').waitFor();
+  assert.ok((await editorText(page)).includes(added), 'the saved text is there after a reload');
   await context.close();
 });
 
@@ -60,10 +69,12 @@ test('the demo reader sees no edit control, and a direct PUT is refused', async 
   await page.getByRole('link', { name: 'Two modes with an imaginary mixing term' }).click();
   await page.waitForURL(/\/worksheets\/(\d+)/);
   const id = /\/worksheets\/(\d+)/.exec(page.url())![1];
-  const source = page.getByTestId('worksheet-source');
-  await source.waitFor();
+  await page.locator('[data-testid="editor"][data-ready="true"]').waitFor();
   assert.equal(await page.getByTestId('save-worksheet').count(), 0, 'no save button for a reader');
-  assert.equal(await source.isEditable(), false, 'the source is read-only for a reader');
+  const before = await editorText(page);
+  await page.locator('[data-testid="editor"] .view-lines').click();
+  await page.keyboard.type('vandal');
+  assert.equal(await editorText(page), before, 'the source is read-only for a reader');
   const status = await page.evaluate(async (worksheetId) => {
     const token = decodeURIComponent(document.cookie.split('; ').find((c) => c.startsWith('XSRF-TOKEN='))?.split('=')[1] ?? '');
     const res = await fetch(`/api/worksheets/${worksheetId}`, {

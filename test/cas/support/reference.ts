@@ -53,7 +53,8 @@ export function relErr(a: Cx, b: Cx): number {
 
 /** A number in worksheet syntax, every digit kept. */
 export function lit(z: Cx): string {
-  const r = (x: number) => (x < 0 ? `(-${(-x).toPrecision(17)})` : x.toPrecision(17));
+  const digits = (x: number) => { const t = x.toPrecision(17); return t.includes('e') ? x.toFixed(40) : t; };
+  const r = (x: number) => (x < 0 ? `(-${digits(-x)})` : digits(x));
   if (z.im === 0) return r(z.re);
   return `(${r(z.re)} + ${r(z.im)}*i)`;
 }

@@ -1,0 +1,215 @@
+// End to end in Debian's Chromium: the worksheet screen with Monaco, live findings, the
+// complex-plane diagram, autosave, the conflict view, accessibility and both themes.
+import assert from 'node:assert/strict';
+import { copyFileSync, mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { after, before, test } from 'node:test';
+import type { Browser, Page } from 'playwright-core';
+import { DEMO } from '../support/api-client.js';
+import { launchBrowser, screenshot, signIn } from '../support/browser.js';
+import { startTestServer, type TestServer } from '../support/test-server.js';
+
+let server: TestServer;
+let browser: Browser;
+const outDir = process.env['TEST_OUTPUT_DIR'] ?? 'test-results';
+
+before(async () => {
+  server = await startTestServer({ CLIENT_DIR: 'dist/sheetwise/browser' });
+  browser = await launchBrowser();
+});
+after(async () => {
+  await browser?.close();
+  await server?.stop();
+});
+
+const MIXING = 'Two modes with an imaginary mixing term';
+
+async function openWorksheet(page: Page, title: string): Promise<string> {
+  await page.getByRole('link', { name: /Lindqvist Lab/ }).first().click();
+  await page.waitForURL(/\/groups\/\d+/);
+  await page.getByRole('link', { name: title }).click();
+  await page.waitForURL(/\/worksheets\/\d+/);
+  await page.locator('[data-testid="editor"][data-ready="true"]').waitFor();
+  return /\/worksheets\/(\d+)/.exec(page.url())![1];
+}
+
+/** The text of the editor model, through the hook the editor puts on its host element. */
+function editorText(page: Page): Promise<string> {
+  return page.evaluate(() => (document.querySelector('[data-testid="editor"]') as unknown as { sheetwiseText(): string }).sheetwiseText());
+}
+
+function editorMarkers(page: Page): Promise<{ line: number; column: number; message: string }[]> {
+  return page.evaluate(() =>
+    (document.querySelector('[data-testid="editor"]') as unknown as { sheetwiseMarkers(): { line: number; column: number; message: string }[] }).sheetwiseMarkers(),
+  );
+}
+
+/** Type lines at the end of the source, as a person would (closing any completion list first). */
+async function typeAtEnd(page: Page, lines: string[]) {
+  await page.locator('[data-testid="editor"] .view-lines').click();
+  await page.keyboard.press('Control+End');
+  for (const line of lines) {
+    if (!(await editorText(page)).endsWith('\n')) {
+      await page.keyboard.press('Escape');
+      await page.keyboard.press('End');
+      await page.keyboard.press('Enter');
+      await page.keyboard.press('Home');
+    }
+    await page.keyboard.type(line, { delay: 5 });
+    await page.keyboard.press('Escape');
+  }
+}
+
+/** Replace the text of one line (1-based) in the editor. */
+async function replaceLine(page: Page, line: number, text: string) {
+  await page.locator('[data-testid="editor"] .view-lines').click();
+  await page.keyboard.press('Control+Home');
+  for (let i = 1; i < line; i++) await page.keyboard.press('ArrowDown');
+  await page.keyboard.press('Home');
+  await page.keyboard.press('Shift+End');
+  await page.keyboard.type(text, { delay: 5 });
+  await page.keyboard.press('Escape');
+}
+
+const card = (page: Page, line: number) => page.locator(`[data-testid="finding-card"][data-line="${line}"]`);
+
+async function waitSaved(page: Page) {
+  await page.getByTestId('save-status').filter({ hasText: /^\s*\S*\s*Saved · version/ }).waitFor({ timeout: 15_000 });
+}
+
+test('the demo author sees the findings, types an integral and gets its KaTeX result and steps', async () => {
+  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  const page = await context.newPage();
+  await signIn(page, server.url, DEMO.author);
+  await openWorksheet(page, MIXING);
+  assert.match(await editorText(page), /integral Zmix/);
+  // The findings of the saved version, one card per statement in source order.
+  await card(page, 6).waitFor({ timeout: 30_000 });
+  const lines = await page.getByTestId('finding-card').evaluateAll((els) => els.map((e) => Number(e.getAttribute('data-line'))));
+  assert.deepEqual(lines, [...lines].sort((a, b) => a - b));
+
+  const before = (await editorText(page)).split('\n').filter((l, i, all) => i < all.length - 1 || l).length;
+  await typeAtEnd(page, ['integral Zone = exp(-m*s^2/2) d(s)']);
+  const newLine = before + 1;
+  const fresh = card(page, newLine);
+  await fresh.waitFor({ timeout: 30_000 });
+  await fresh.locator('[data-testid="finding-result"] .katex').waitFor({ timeout: 15_000 });
+  await fresh.locator('button.goto').click();
+  assert.ok((await fresh.getByTestId('finding-step').count()) >= 2, 'the steps of the record are listed');
+  assert.match(await fresh.locator('[data-badge="convergence"]').innerText(), /Converges absolutely/);
+  await page.getByTestId('diagram').locator('[data-role="contour"]').first().waitFor();
+  await waitSaved(page);
+  await screenshot(page, 'worksheet-screen-light');
+  mkdirSync('docs', { recursive: true });
+  copyFileSync(join(outDir, 'worksheet-screen-light.png'), 'docs/worksheet-screen.png');
+
+  // Dark theme.
+  await page.getByTestId('theme-toggle').click();
+  await page.waitForFunction(() => document.documentElement.classList.contains('sw-dark'));
+  await screenshot(page, 'worksheet-screen-dark');
+  await page.getByTestId('theme-toggle').click();
+  await context.close();
+});
+
+test('a syntax error shows as a marker and on its card; the other cards stay; fixed, it goes; reload keeps the text', async () => {
+  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  const page = await context.newPage();
+  await signIn(page, server.url, DEMO.author);
+  await openWorksheet(page, 'Driven mode with a complex stiffness');
+  await card(page, 5).waitFor({ timeout: 30_000 });
+  const text = await editorText(page);
+  const lineCount = text.endsWith('\n') ? text.split('\n').length - 1 : text.split('\n').length;
+  const errLine = lineCount + 1;
+  await typeAtEnd(page, ['param q : sideways']);
+  const bad = card(page, errLine);
+  await bad.getByTestId('finding-error').waitFor({ timeout: 30_000 });
+  assert.ok((await bad.getByTestId('finding-error').innerText()).length > 10, 'the error is in words');
+  assert.ok((await page.getByTestId('finding-card').count()) > 1, 'the other cards stay');
+  const markers = await editorMarkers(page);
+  assert.ok(markers.some((m) => m.line === errLine), `a marker on line ${errLine}: ${JSON.stringify(markers)}`);
+  await page.locator('[data-testid="editor"] .squiggly-error').first().waitFor();
+  await screenshot(page, 'worksheet-syntax-error');
+
+  await replaceLine(page, errLine, 'param q : real');
+  await page.waitForFunction(
+    (l) => !document.querySelector(`[data-testid="finding-card"][data-line="${l}"] [data-testid="finding-error"]`) &&
+      !!document.querySelector(`[data-testid="finding-card"][data-line="${l}"]`),
+    errLine,
+    { timeout: 30_000 },
+  );
+  assert.equal((await editorMarkers(page)).filter((m) => m.line === errLine).length, 0);
+  await waitSaved(page);
+  await page.reload();
+  await page.locator('[data-testid="editor"][data-ready="true"]').waitFor();
+  assert.ok((await editorText(page)).includes('param q : real'), 'the text is saved');
+  await context.close();
+});
+
+test('a second browser saves meanwhile: the first sees both versions and keeps its own', async () => {
+  const ctxA = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  const ctxB = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  const a = await ctxA.newPage();
+  const b = await ctxB.newPage();
+  await signIn(a, server.url, DEMO.author);
+  await signIn(b, server.url, DEMO.owner);
+  await openWorksheet(a, 'Free particle in three time slices');
+  await openWorksheet(b, 'Free particle in three time slices');
+  await typeAtEnd(b, ['note "Saved by the second browser"']);
+  await waitSaved(b);
+  await typeAtEnd(a, ['note "Typed in the first browser"']);
+  await a.getByTestId('save-conflict').waitFor({ timeout: 15_000 });
+  await a.locator('[data-testid="conflict-diff"][data-ready="true"]').waitFor();
+  await a.getByTestId('conflict-diff').getByText('Saved by the second browser').first().waitFor();
+  await screenshot(a, 'worksheet-conflict');
+  await a.getByTestId('keep-mine').click();
+  await waitSaved(a);
+  assert.equal(await a.getByTestId('save-conflict').count(), 0);
+  assert.match(await editorText(a), /Typed in the first browser/);
+  await ctxA.close();
+  await ctxB.close();
+});
+
+test('a continuation draws its path with numbered events on the diagram', async () => {
+  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  const page = await context.newPage();
+  await signIn(page, server.url, DEMO.author);
+  await openWorksheet(page, MIXING);
+  await card(page, 6).waitFor({ timeout: 30_000 });
+  const text = await editorText(page);
+  const lineCount = text.endsWith('\n') ? text.split('\n').length - 1 : text.split('\n').length;
+  await typeAtEnd(page, ['continue Zmix : g along 0 -> 2*i*m']);
+  const cont = card(page, lineCount + 1);
+  await cont.waitFor({ timeout: 30_000 });
+  await cont.locator('button.goto').click();
+  const diagram = page.getByTestId('diagram');
+  await diagram.locator('[data-role="continuation"]').waitFor({ timeout: 15_000 });
+  assert.ok((await diagram.locator('[data-role="event"]').count()) >= 1, 'events are marked');
+  const description = await page.getByTestId('diagram-description').textContent();
+  assert.match(description ?? '', /Step \d+/);
+  await screenshot(page, 'worksheet-continuation');
+  await context.close();
+});
+
+test('the worksheet page has no serious or critical accessibility violation (axe-core), light and dark', async () => {
+  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  const page = await context.newPage();
+  await signIn(page, server.url, DEMO.author);
+  await openWorksheet(page, MIXING);
+  await page.getByTestId('evaluation-status').filter({ hasText: /\S/ }).waitFor({ timeout: 30_000 });
+  await page.addScriptTag({ path: 'node_modules/axe-core/axe.min.js' });
+  for (const dark of [false, true]) {
+    if (dark) {
+      await page.getByTestId('theme-toggle').click();
+      await page.waitForFunction(() => document.documentElement.classList.contains('sw-dark'));
+    }
+    const violations = await page.evaluate(async () => {
+      const axe = (window as unknown as { axe: { run(ctx: unknown, opts: unknown): Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }> } }).axe;
+      // Monaco's own internals are excluded: its text area and widgets are its accessibility surface.
+      const result = await axe.run({ exclude: [['.monaco-editor .view-lines'], ['.monaco-editor .margin']] }, { resultTypes: ['violations'] });
+      return result.violations.map((v) => ({ id: v.id, impact: v.impact, nodes: v.nodes.slice(0, 3).map((n) => n.target.join(' ')) }));
+    });
+    const serious = violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+    assert.deepEqual(serious, [], `${dark ? 'dark' : 'light'}: ${JSON.stringify(serious, null, 1)}`);
+  }
+  await context.close();
+});
