@@ -21,6 +21,7 @@ import { evaluateRoutes } from './routes/evaluate.js';
 import { groupRoutes } from './routes/groups.js';
 import { groupInvitationRoutes, invitationRoutes } from './routes/invitations.js';
 import { passwordResetRoutes } from './routes/password-reset.js';
+import { reviewRoutes } from './routes/reviews.js';
 import { memberRoutes } from './routes/members.js';
 import { groupWorksheetRoutes, worksheetRoutes } from './routes/worksheets.js';
 
@@ -93,6 +94,7 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   api.use('/groups', requireUser, groupRoutes());
   api.use('/worksheets', requireUser, worksheetRoutes(evaluationPool));
   api.use('/evaluate', requireUser, evaluateRoutes(evaluationPool));
+  api.use(requireUser, reviewRoutes(config, mailer));
   api.use('/admin', requireAdmin, adminRoutes());
   api.use(unknownApiRoute);
   api.use(errorHandler(logger));

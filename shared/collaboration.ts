@@ -65,3 +65,53 @@ export interface MailDeliveryDto {
   lastError: string | null;
   createdAt: string;
 }
+
+// ---- review and sign-off ----
+
+export const REVIEW_STATUSES = ['unreviewed', 'requested', 'confirmed', 'disputed'] as const;
+export type ReviewStatus = (typeof REVIEW_STATUSES)[number];
+
+export const requestReviewBody = z.object({
+  statementKey: z.string().min(1).max(20_000),
+  reviewerIds: z.array(z.number().int().positive()).min(1, 'Choose at least one reviewer.').max(20),
+});
+export const verdictBody = z.object({
+  verdict: z.enum(['confirmed', 'disputed']),
+  comment: z.string().trim().max(10_000).optional().default(''),
+});
+export const commentBody = z.object({ body: z.string().trim().min(1, 'Write a comment.').max(10_000) });
+
+export interface ReviewCommentDto {
+  id: number;
+  author: string;
+  body: string;
+  createdAt: string;
+}
+
+export interface ReviewDto {
+  id: number;
+  worksheetId: number;
+  worksheetTitle: string;
+  statementKey: string;
+  statementText: string;
+  version: number;
+  status: Exclude<ReviewStatus, 'unreviewed'>;
+  reviewer: string;
+  reviewerId: number | null;
+  requestedBy: string;
+  requestedAt: string;
+  decidedAt: string | null;
+  /** The statement, or something it depends on, changed since this review's version. */
+  stale: boolean;
+  comments: ReviewCommentDto[];
+}
+
+/** A statement of the current version with its review state. */
+export interface StatementReviewDto {
+  key: string;
+  line: number;
+  text: string;
+  /** From the newest review whose fingerprint matches the current statement; 'unreviewed' when none. */
+  status: ReviewStatus;
+  reviews: ReviewDto[];
+}

@@ -37,3 +37,30 @@ export function unlockMail(o: { to: string; link: string; failures: number }): M
     { href: o.link, label: 'Unlock the account' },
   );
 }
+
+export function reviewRequestedMail(o: { to: string; requester: string; worksheet: string; statement: string; link: string }): MailContent {
+  return compose(
+    o.to,
+    `Review requested: ${o.statement} in “${o.worksheet}”`,
+    [`Hello,`, `${o.requester} asks you to review the result “${o.statement}” in the worksheet “${o.worksheet}”. Confirm it or dispute it with a comment.`],
+    { href: o.link, label: 'Open the worksheet' },
+  );
+}
+
+export function reviewVerdictMail(o: { to: string; reviewer: string; verdict: string; worksheet: string; statement: string; comment: string; link: string }): MailContent {
+  return compose(
+    o.to,
+    `${o.reviewer} ${o.verdict} ${o.statement} in “${o.worksheet}”`,
+    [`Hello,`, `${o.reviewer} ${o.verdict} the result “${o.statement}” in the worksheet “${o.worksheet}”.`, ...(o.comment ? [`Comment: ${o.comment}`] : [])],
+    { href: o.link, label: 'Open the worksheet' },
+  );
+}
+
+export function reviewReplyMail(o: { to: string; author: string; worksheet: string; statement: string; body: string; link: string }): MailContent {
+  return compose(
+    o.to,
+    `New comment on ${o.statement} in “${o.worksheet}”`,
+    [`Hello,`, `${o.author} replied in the review thread of “${o.statement}” in “${o.worksheet}”:`, o.body],
+    { href: o.link, label: 'Open the thread' },
+  );
+}

@@ -3,12 +3,14 @@ import { Evaluation } from './evaluation.js';
 import { Group } from './group.js';
 import { Invitation } from './invitation.js';
 import { PasswordReset } from './password-reset.js';
+import { Review } from './review.js';
+import { ReviewComment } from './review-comment.js';
 import { Membership } from './membership.js';
 import { User } from './user.js';
 import { Worksheet } from './worksheet.js';
 import { WorksheetVersion } from './worksheet-version.js';
 
-export { Evaluation, Group, Invitation, Membership, PasswordReset, User, Worksheet, WorksheetVersion };
+export { Evaluation, Review, ReviewComment, Group, Invitation, Membership, PasswordReset, User, Worksheet, WorksheetVersion };
 
 /** Registers every model and its associations on the Sequelize instance. */
 export function initModels(sequelize: Sequelize): void {
@@ -19,6 +21,8 @@ export function initModels(sequelize: Sequelize): void {
   WorksheetVersion.initModel(sequelize);
   Invitation.initModel(sequelize);
   Evaluation.initModel(sequelize);
+  Review.initModel(sequelize);
+  ReviewComment.initModel(sequelize);
   PasswordReset.initModel(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
@@ -32,4 +36,9 @@ export function initModels(sequelize: Sequelize): void {
   Worksheet.hasMany(WorksheetVersion, { foreignKey: 'worksheetId', as: 'versions' });
   Invitation.belongsTo(User, { foreignKey: 'invitedById', as: 'invitedBy' });
   Invitation.belongsTo(Group, { foreignKey: 'groupId', as: 'group' });
+  Review.belongsTo(User, { foreignKey: 'reviewerId', as: 'reviewer' });
+  Review.belongsTo(User, { foreignKey: 'requestedById', as: 'requestedBy' });
+  Review.belongsTo(Worksheet, { foreignKey: 'worksheetId', as: 'worksheet' });
+  Review.hasMany(ReviewComment, { foreignKey: 'reviewId', as: 'comments' });
+  ReviewComment.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
 }
