@@ -22,6 +22,10 @@ import { groupRoutes } from './routes/groups.js';
 import { groupInvitationRoutes, invitationRoutes } from './routes/invitations.js';
 import { passwordResetRoutes } from './routes/password-reset.js';
 import { reviewRoutes } from './routes/reviews.js';
+import { activityRoutes } from './routes/activity.js';
+import { exportRoutes } from './routes/exports.js';
+import { fileRoutes } from './routes/files.js';
+import { refereeRoutes } from './routes/referee.js';
 import { memberRoutes } from './routes/members.js';
 import { groupWorksheetRoutes, worksheetRoutes } from './routes/worksheets.js';
 
@@ -87,6 +91,9 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   });
   api.use('/auth/password-reset', passwordResetRoutes(config, mailer));
   api.use('/invitations', invitationRoutes());
+  // Referee links: the public view needs no account; managing links does.
+  api.use(refereeRoutes(config, evaluationPool));
+  api.use('/groups/:groupId/activity', requireUser, activityRoutes());
   api.use('/groups/:groupId/invitations', requireUser, groupInvitationRoutes(config, mailer));
   api.use('/auth', authRoutes({ loginRateLimit: config.loginRateLimit }));
   api.use('/groups/:groupId/members', requireUser, memberRoutes());
@@ -95,6 +102,8 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   api.use('/worksheets', requireUser, worksheetRoutes(evaluationPool));
   api.use('/evaluate', requireUser, evaluateRoutes(evaluationPool));
   api.use(requireUser, reviewRoutes(config, mailer));
+  api.use(requireUser, fileRoutes(evaluationPool));
+  api.use(requireUser, exportRoutes(evaluationPool));
   api.use('/admin', requireAdmin, adminRoutes());
   api.use(unknownApiRoute);
   api.use(errorHandler(logger));

@@ -20,6 +20,7 @@ import { HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, parseInput } from '../middleware/validate.js';
 import { Group, Invitation, Membership, User } from '../models/index.js';
 import { LIMITS } from '../../shared/api.js';
+import { recordActivity } from '../activity/record.js';
 
 const toDto = (i: Invitation): InvitationDto => ({
   id: i.id,
@@ -72,6 +73,7 @@ export function groupInvitationRoutes(config: ServerConfig, mailer: Mailer): Rou
         invitationMail({ to: body.email, groupName: group.name, role: body.role, inviter: user.displayName, link: `${config.publicUrl}/invitations/${token}`, days: INVITATION_DAYS }),
         { transaction },
       );
+      await recordActivity(Invitation.sequelize!, { groupId, userId: user.id, action: 'invited', subject: `${body.email} as ${body.role}` }, transaction);
       return created;
     });
     invitation.invitedBy = user;

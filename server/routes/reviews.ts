@@ -11,6 +11,7 @@ import { forbidden, HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, parseInput } from '../middleware/validate.js';
 import { Membership, Review, ReviewComment, User, Worksheet } from '../models/index.js';
 import { reviewableStatements } from '../reviews/fingerprint.js';
+import { recordActivity } from '../activity/record.js';
 
 const param = (req: { params: unknown }, name: string) => (req.params as Record<string, string>)[name];
 
@@ -51,6 +52,18 @@ async function loadReview(id: number): Promise<Review> {
   return review;
 }
 
+/** The statements of a source with their review state, for the screen and the exports. */
+export async function statementReviews(worksheetId: number, source: string): Promise<StatementReviewDto[]> {
+  const statements = reviewableStatements(source);
+  const current = new Map(statements.map((s) => [s.key, s.fingerprint]));
+  const reviews = await Review.findAll({ where: { worksheetId }, include: withPeople, order: [['requestedAt', 'DESC'], ['id', 'DESC']] });
+  return statements.map((s) => {
+    const mine = reviews.filter((r) => r.statementKey === s.key).map((r) => toDto(r, current));
+    const fresh = mine.find((r) => !r.stale && r.status !== 'requested') ?? mine.find((r) => !r.stale);
+    return { key: s.key, line: s.line, text: s.text, status: fresh?.status ?? 'unreviewed', reviews: mine };
+  });
+}
+
 export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
   const router = Router();
   const link = (worksheetId: number) => `${config.publicUrl}/worksheets/${worksheetId}`;
@@ -59,15 +72,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
   router.get('/worksheets/:id/reviews', async (req, res) => {
     const id = idParam(param(req, 'id'), 'This worksheet');
     const { worksheet } = await requireWorksheetRole(currentUser(req).id, id, 'read');
-    const statements = reviewableStatements(worksheet.source);
-    const current = new Map(statements.map((s) => [s.key, s.fingerprint]));
-    const reviews = await Review.findAll({ where: { worksheetId: id }, include: withPeople, order: [['requestedAt', 'DESC'], ['id', 'DESC']] });
-    const result: StatementReviewDto[] = statements.map((s) => {
-      const mine = reviews.filter((r) => r.statementKey === s.key).map((r) => toDto(r, current));
-      const fresh = mine.find((r) => !r.stale && r.status !== 'requested') ?? mine.find((r) => !r.stale);
-      return { key: s.key, line: s.line, text: s.text, status: fresh?.status ?? 'unreviewed', reviews: mine };
-    });
-    res.json({ version: worksheet.version, statements: result });
+    res.json({ version: worksheet.version, statements: await statementReviews(worksheet.id, worksheet.source) });
   });
 
   // An author asks chosen reviewers to review one statement of the current version.
@@ -96,6 +101,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
         );
         await mailer.send(reviewRequestedMail({ to: m.user!.email, requester: user.displayName, worksheet: worksheet.title, statement: statement.key, link: link(id) }), { transaction });
       }
+      await recordActivity(Review.sequelize!, { groupId: worksheet.groupId, userId: user.id, action: 'requested review', subject: `${statement.key} in ${worksheet.title}`, worksheetId: id }, transaction);
       return rows;
     });
     const current = fingerprintsOf(worksheet.source);
@@ -114,6 +120,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
     await Review.sequelize!.transaction(async (transaction) => {
       await review.update({ status: body.verdict, decidedAt: new Date() }, { transaction });
       if (body.comment) await ReviewComment.create({ reviewId: review.id, authorId: user.id, body: body.comment }, { transaction });
+      await recordActivity(Review.sequelize!, { groupId: review.worksheet!.groupId, userId: user.id, action: body.verdict, subject: `${review.statementKey} in ${review.worksheet!.title}`, worksheetId: review.worksheetId }, transaction);
       if (review.requestedBy) {
         await mailer.send(
           reviewVerdictMail({
@@ -142,6 +149,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
     const body = parseInput(commentBody, req.body);
     await Review.sequelize!.transaction(async (transaction) => {
       await ReviewComment.create({ reviewId: review.id, authorId: user.id, body: body.body }, { transaction });
+      await recordActivity(Review.sequelize!, { groupId: review.worksheet!.groupId, userId: user.id, action: 'commented', subject: `on ${review.statementKey} in ${review.worksheet!.title}`, worksheetId: review.worksheetId }, transaction);
       const ids = new Set([review.requestedById, review.reviewerId, ...(review.comments ?? []).map((c) => c.authorId)].filter((x): x is number => x != null && x !== user.id));
       const people = await User.findAll({ where: { id: [...ids] }, transaction });
       for (const p of people) {

@@ -15,6 +15,7 @@ import { idParam, parseInput } from '../middleware/validate.js';
 import { Evaluation, User, Worksheet, WorksheetVersion } from '../models/index.js';
 import type { EvaluationPool } from '../evaluation/pool.js';
 import { evaluateForRequest } from './evaluate.js';
+import { recordActivity } from '../activity/record.js';
 import { checkEvaluationLimits, checkWorksheetSize } from '../evaluation/limits.js';
 
 const summary = (w: Worksheet): WorksheetSummaryDto => ({
@@ -63,6 +64,7 @@ export function groupWorksheetRoutes(): Router {
     const worksheet = await Worksheet.sequelize!.transaction(async (transaction) => {
       const created = await Worksheet.create({ groupId, title: body.title, source: body.source, updatedById: user.id }, { transaction });
       await WorksheetVersion.create({ worksheetId: created.id, number: 1, title: body.title, source: body.source, authorId: user.id }, { transaction });
+      await recordActivity(Worksheet.sequelize!, { groupId, userId: user.id, action: 'created worksheet', subject: body.title, worksheetId: created.id }, transaction);
       return created;
     });
     worksheet.updatedBy = user;
@@ -124,6 +126,7 @@ export function worksheetRoutes(pool: EvaluationPool): Router {
       const title = body.title ?? current.title;
       await current.update({ title, source: body.source, version: number, updatedById: user.id }, { transaction });
       await WorksheetVersion.create({ worksheetId: id, number, title, source: body.source, authorId: user.id }, { transaction });
+      await recordActivity(Worksheet.sequelize!, { groupId: current.groupId, userId: user.id, action: 'saved worksheet', subject: `${title} v${number}`, worksheetId: id }, transaction);
       return { saved: current };
     });
     if ('conflict' in saved) {
@@ -142,7 +145,10 @@ export function worksheetRoutes(pool: EvaluationPool): Router {
   router.delete('/:id', async (req, res) => {
     const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
     const { worksheet } = await requireWorksheetRole(currentUser(req).id, id, 'editWorksheets');
-    await worksheet.destroy();
+    await Worksheet.sequelize!.transaction(async (transaction) => {
+      await worksheet.destroy({ transaction });
+      await recordActivity(Worksheet.sequelize!, { groupId: worksheet.groupId, userId: currentUser(req).id, action: 'deleted worksheet', subject: worksheet.title }, transaction);
+    });
     res.status(204).end();
   });
 

@@ -60,11 +60,9 @@ async function typeAtEnd(page: Page, lines: string[]) {
   }
 }
 
-/** Replace the text of one line (1-based) in the editor. */
+/** Replace the text of one line (1-based): its card's head puts the editor's cursor there. */
 async function replaceLine(page: Page, line: number, text: string) {
-  await page.locator('[data-testid="editor"] .view-lines').click();
-  await page.keyboard.press('Control+Home');
-  for (let i = 1; i < line; i++) await page.keyboard.press('ArrowDown');
+  await card(page, line).locator('button.goto').click();
   await page.keyboard.press('Home');
   await page.keyboard.press('Shift+End');
   await page.keyboard.type(text, { delay: 5 });
@@ -97,7 +95,7 @@ test('the demo author sees the findings, types an integral and gets its KaTeX re
   await fresh.locator('button.goto').click();
   assert.ok((await fresh.getByTestId('finding-step').count()) >= 2, 'the steps of the record are listed');
   assert.match(await fresh.locator('[data-badge="convergence"]').innerText(), /Converges absolutely/);
-  await page.getByTestId('diagram').locator('[data-role="contour"]').first().waitFor();
+  await page.getByTestId('diagram').locator('[data-role="contour"]').first().waitFor({ state: 'attached' });
   await waitSaved(page);
   await screenshot(page, 'worksheet-screen-light');
   mkdirSync('docs', { recursive: true });
@@ -182,7 +180,7 @@ test('a continuation draws its path with numbered events on the diagram', async 
   await cont.waitFor({ timeout: 30_000 });
   await cont.locator('button.goto').click();
   const diagram = page.getByTestId('diagram');
-  await diagram.locator('[data-role="continuation"]').waitFor({ timeout: 15_000 });
+  await diagram.locator('[data-role="continuation"]').waitFor({ state: 'attached', timeout: 15_000 });
   assert.ok((await diagram.locator('[data-role="event"]').count()) >= 1, 'events are marked');
   const description = await page.getByTestId('diagram-description').textContent();
   assert.match(description ?? '', /Step \d+/);
@@ -191,7 +189,8 @@ test('a continuation draws its path with numbered events on the diagram', async 
 });
 
 test('the worksheet page has no serious or critical accessibility violation (axe-core), light and dark', async () => {
-  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  // bypassCSP only so that the test can inject axe-core; the page itself runs under its CSP.
+  const context = await browser.newContext({ viewport: { width: 1440, height: 900 }, bypassCSP: true });
   const page = await context.newPage();
   await signIn(page, server.url, DEMO.author);
   await openWorksheet(page, MIXING);

@@ -38,6 +38,27 @@ export class ApiClient {
     return { status: res.status, json, text, headers: res.headers };
   }
 
+  /** A multipart upload with one file in the field "file" (like a browser form). */
+  async upload(path: string, fileName: string, bytes: Uint8Array | string, fields: Record<string, string> = {}) {
+    if (!this.cookies.has('XSRF-TOKEN')) await this.request('GET', '/api/health');
+    const form = new FormData();
+    for (const [k, v] of Object.entries(fields)) form.append(k, v);
+    form.append('file', new Blob([typeof bytes === 'string' ? bytes : Buffer.from(bytes)]), fileName);
+    const headers: Record<string, string> = {
+      cookie: [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '),
+      'x-xsrf-token': decodeURIComponent(this.cookies.get('XSRF-TOKEN')!),
+    };
+    const res = await fetch(this.baseUrl + path, { method: 'POST', headers, body: form });
+    const text = await res.text();
+    let json: any = null;
+    try {
+      json = JSON.parse(text);
+    } catch {
+      json = null;
+    }
+    return { status: res.status, json, text, headers: res.headers };
+  }
+
   get(path: string) {
     return this.request('GET', path);
   }
