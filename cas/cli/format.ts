@@ -1,0 +1,22 @@
+/** The readable (non-JSON) report of the command line tool. */
+import type { StatementReport, WorksheetReport } from '../../shared/evaluation.js';
+
+function statementLines(s: StatementReport): string[] {
+  const head = `line ${s.line}  ${s.kind}${s.name ? ` ${s.name}` : ''}: ${s.status}`;
+  const out = [head];
+  if (s.error) out.push(`  error (line ${s.error.line}, column ${s.error.column}): ${s.error.message}`);
+  if (s.convergence) out.push(`  convergence: ${s.convergence} (${s.proof === 'proved' ? 'proved' : 'sampled, not proved'})`);
+  if (s.result) {
+    out.push(`  result: ${s.name ?? ''} = ${s.result.text}`);
+    if (s.result.value) out.push(`  value: ${s.result.value.re} ${s.result.value.im < 0 ? '-' : '+'} ${Math.abs(s.result.value.im)}*i`);
+  }
+  if (s.branch) out.push(`  branch: principal sqrt(det A) ${s.branch.principalSqrtDetCorrect ? 'is correct' : 'is NOT correct everywhere'}`);
+  if (s.kind === 'integral' || s.kind === 'expect') s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${st.text}`));
+  return out;
+}
+
+export function formatReport(r: WorksheetReport): string {
+  const lines = [`${r.file ?? '(worksheet)'}: ${r.ok ? 'ok' : 'NOT ok'}`];
+  for (const s of r.statements) lines.push(...statementLines(s));
+  return lines.join('\n');
+}

@@ -1,0 +1,49 @@
+/** Convergence of a Gaussian integral at one numeric point, from Re A and Im A. */
+import type { CMat } from '../numeric/cmatrix.js';
+import { symEig } from '../numeric/symeig.js';
+
+export type PointVerdict =
+  | { kind: 'absolute'; realEigenvalues: number[] }
+  | { kind: 'oscillatory'; realEigenvalues: number[]; kernelDim: number }
+  | { kind: 'divergent'; realEigenvalues: number[]; direction: number[]; grows: boolean };
+
+function part(a: CMat, which: 're' | 'im'): number[][] {
+  const n = a.n;
+  return Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (a[which][i * n + j]! + a[which][j * n + i]!) / 2));
+}
+
+function scaleOf(a: CMat): number {
+  let s = 0;
+  for (let k = 0; k < a.n * a.n; k++) s = Math.max(s, Math.abs(a.re[k]!), Math.abs(a.im[k]!));
+  return s;
+}
+
+/** Round a direction for display and make its largest entry positive. */
+function tidyDirection(v: number[]): number[] {
+  const big = v.reduce((m, x) => (Math.abs(x) > Math.abs(m) ? x : m), 0);
+  const s = big < 0 ? -1 : 1;
+  return v.map((x) => Number((s * x).toPrecision(6)) + 0);
+}
+
+export function convergenceAt(a: CMat): PointVerdict {
+  const n = a.n;
+  const tol = 1e-10 * Math.max(scaleOf(a), 1e-300);
+  const re = symEig(part(a, 're'));
+  const lo = re.values[0]!;
+  if (lo > tol) return { kind: 'absolute', realEigenvalues: re.values };
+  if (lo < -tol) return { kind: 'divergent', realEigenvalues: re.values, direction: tidyDirection(re.vectors[0]!), grows: true };
+  // Re A is semidefinite: the integral is oscillatory when Im A is nondegenerate on the kernel of Re A.
+  const kernel = re.vectors.filter((_, k) => Math.abs(re.values[k]!) <= tol);
+  const im = part(a, 'im');
+  const m = kernel.map((u) => kernel.map((w) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) s += u[i]! * im[i]![j]! * w[j]!;
+    return s;
+  }));
+  const me = symEig(m);
+  const k = me.values.findIndex((x) => Math.abs(x) <= tol);
+  if (k < 0) return { kind: 'oscillatory', realEigenvalues: re.values, kernelDim: kernel.length };
+  const coeffs = me.vectors[k]!;
+  const direction = Array.from({ length: n }, (_, i) => kernel.reduce((s, u, j) => s + coeffs[j]! * u[i]!, 0));
+  return { kind: 'divergent', realEigenvalues: re.values, direction: tidyDirection(direction), grows: false };
+}

@@ -1,0 +1,120 @@
+/**
+ * The PEG grammar of one worksheet line. Statements are parsed line by line so
+ * that one bad line never hides the others. Named rules ("an expression", ...)
+ * give the plain words used in error sentences.
+ */
+export const LINE_GRAMMAR = String.raw`
+{{
+  function bin(head, tail) {
+    return tail.reduce((a, [op, b]) => ({ t: 'bin', op, a, b, span: { start: a.span.start, end: b.span.end } }), head);
+  }
+}}
+
+{
+  const L = options.line ?? 1;
+  const O = options.offset ?? 0;
+  function pos(p) { return { line: p.line + L - 1, column: p.column, offset: p.offset + O }; }
+  function span() { const l = location(); return { start: pos(l.start), end: pos(l.end) }; }
+}
+
+Line
+  = _ s:Statement? _ Comment? End { return s; }
+
+Comment "a comment"
+  = "#" [^\n]*
+
+End "the end of the line"
+  = !.
+
+Statement
+  = Param / Integral / Expect / Note / Let / Later
+
+Param
+  = "param" __ names:NameList _ ":" _ domain:Domain
+    { return { kind: 'param', names, domain, span: span() }; }
+
+NameList
+  = head:NameRef tail:(_ "," _ n:NameRef { return n; })* { return [head, ...tail]; }
+
+Domain "a domain (positive, negative, real, complex or nonzero)"
+  = d:("positive" / "negative" / "real" / "complex" / "nonzero") !IdChar { return d; }
+
+Integral
+  = "integral" __ name:NameRef _ "=" _ integrand:Expr _ vars:Measure
+    { return { kind: 'integral', name, integrand, vars, span: span() }; }
+
+Measure
+  = "d" _ "(" _ vars:NameList _ ")" { return vars; }
+
+Expect
+  = "expect" __ name:NameRef _ "=" _ expr:Expr
+    { return { kind: 'expect', name, expr, span: span() }; }
+
+Let
+  = "let" __ name:NameRef _ "=" _ expr:Expr
+    { return { kind: 'let', name, expr, span: span() }; }
+
+Note
+  = "note" _ text:StringLit { return { kind: 'note', text, span: span() }; }
+
+StringLit "a text in double quotes"
+  = '"' chars:$[^"\n]* '"' { return chars; }
+
+Later
+  = kind:$("rotate" / "continue" / "compare" / "verify" / "limit") !IdChar rest:$[^#\n]*
+    { return { kind, rest: rest.trim(), span: span() }; }
+
+Expr
+  = Sum
+
+Sum
+  = head:Product tail:(_ op:[+-] _ b:Product { return [op, b]; })* { return bin(head, tail); }
+
+Product
+  = head:Unary tail:(_ op:[*/] _ b:Unary { return [op, b]; })* { return bin(head, tail); }
+
+Unary
+  = "-" _ a:Unary { return { t: 'neg', a, span: span() }; }
+  / "+" _ a:Unary { return a; }
+  / Power
+
+Power
+  = base:Atom _ "^" _ exp:Unary { return { t: 'bin', op: '^', a: base, b: exp, span: span() }; }
+  / Atom
+
+Atom
+  = Number
+  / Call
+  / Variable
+  / "(" _ e:Expr _ ")" { return e; }
+
+Call
+  = fn:Identifier _ "(" _ args:ArgList _ ")" { return { t: 'call', fn, args, span: span() }; }
+
+ArgList
+  = head:Expr tail:(_ "," _ e:Expr { return e; })* { return [head, ...tail]; }
+
+Variable
+  = name:Identifier !(_ "(") {
+      if (name === 'i' || name === 'pi' || name === 'e') return { t: 'const', name, span: span() };
+      return { t: 'name', name, span: span() };
+    }
+
+Number "a number"
+  = v:$([0-9]+ ("." [0-9]+)? / "." [0-9]+) { return { t: 'num', v, span: span() }; }
+
+NameRef
+  = name:Identifier { return { name, span: span() }; }
+
+Identifier "a name"
+  = $([A-Za-z] IdChar*)
+
+IdChar
+  = [A-Za-z0-9_]
+
+__ "a space"
+  = [ \t]+
+
+_
+  = [ \t]*
+`;

@@ -1,0 +1,40 @@
+/** What earlier statements leave for later ones: declared parameters and named results. */
+import type { Domain, StatementReport } from '../../shared/evaluation.js';
+import type { Expr } from '../lang/ast.js';
+import type { Point } from '../domains/sample.js';
+import type { C } from '../numeric/cmatrix.js';
+
+export interface ParamInfo { domain: Domain; line: number }
+
+export interface ResultInfo {
+  line: number;
+  /** Why the result has no value, when it has none. */
+  unavailable: string | null;
+  /** The written closed form, or null (divergent, or errored). */
+  expr: Expr | null;
+  params: string[];
+  /** The value on the continuous branch at a parameter point; null where it diverges. */
+  valueAt: ((p: Point) => C | null) | null;
+}
+
+export interface Context {
+  params: Map<string, ParamInfo>;
+  results: Map<string, ResultInfo>;
+}
+
+export function newContext(): Context { return { params: new Map(), results: new Map() }; }
+
+export function blankReport(line: number, kind: StatementReport['kind'], name: string | null): StatementReport {
+  return { line, kind, name, status: 'ok', convergence: null, proof: null, result: null, branch: null, steps: [], error: null };
+}
+
+/** A located failure of one statement; the worksheet goes on with the next. */
+export class StatementFailure extends Error {
+  constructor(message: string, readonly line: number, readonly column: number) { super(message); }
+}
+
+export function domainsOf(ctx: Context, names: readonly string[]): Map<string, Domain> {
+  const out = new Map<string, Domain>();
+  for (const n of names) { const p = ctx.params.get(n); if (p) out.set(n, p.domain); }
+  return out;
+}

@@ -1,0 +1,96 @@
+/** Evaluates a worksheet statement by statement; one failure never stops the others. */
+import type { StatementReport, WorksheetReport } from '../shared/evaluation.js';
+import type { Statement } from './lang/ast.js';
+import { parseWorksheet } from './lang/parse.js';
+import { blankReport, newContext, StatementFailure, type Context } from './statements/context.js';
+import { evaluateParam } from './statements/param.js';
+import { evaluateIntegral } from './statements/integral.js';
+import { evaluateExpect } from './statements/expect.js';
+import { evaluateNote } from './statements/note.js';
+import { evaluateLater } from './statements/later.js';
+import { clearDeadline, startDeadline, TimeLimitError, timeLimitMessage } from './deadline.js';
+
+export interface EvaluateOptions {
+  /** Per-statement limit in milliseconds (default 5000). */
+  timeLimitMsPerStatement?: number;
+  /** Called before each statement runs (statement index counts statements only, in source order). */
+  onStatementStart?: (index: number, line: number) => void;
+  /** Statement indices a supervisor already stopped: reported as timed out, not run again. */
+  timedOut?: number[];
+  /** Shown as the report's file. */
+  file?: string | null;
+}
+
+function dispatch(s: Statement, ctx: Context): StatementReport {
+  switch (s.kind) {
+    case 'param': return evaluateParam(s, ctx);
+    case 'integral': return evaluateIntegral(s, ctx);
+    case 'expect': return evaluateExpect(s, ctx);
+    case 'note': return evaluateNote(s);
+    default: return evaluateLater(s);
+  }
+}
+
+function nameOf(s: Statement): string | null {
+  switch (s.kind) {
+    case 'param': return s.names.map((n) => n.name).join(', ');
+    case 'integral': case 'expect': case 'let': return s.name.name;
+    default: return null;
+  }
+}
+
+/** Results an errored statement would have defined, so that later statements say what they depend on. */
+function markUnavailable(s: Statement, ctx: Context, why: string): void {
+  if (s.kind === 'integral' || s.kind === 'let') {
+    const line = s.span.start.line;
+    if (!ctx.results.has(s.name.name)) {
+      ctx.results.set(s.name.name, { line, unavailable: `${s.name.name} (line ${line}), which ${why}`, expr: null, params: [], valueAt: null });
+    }
+  }
+  if (s.kind === 'param') {
+    for (const n of s.names) if (!ctx.params.has(n.name)) ctx.params.set(n.name, { domain: s.domain, line: s.span.start.line });
+  }
+}
+
+export function evaluateWorksheet(source: string, options: EvaluateOptions = {}): WorksheetReport {
+  const limit = options.timeLimitMsPerStatement ?? 5000;
+  const timedOut = new Set(options.timedOut ?? []);
+  const parsed = parseWorksheet(source);
+  const ctx = newContext();
+  const statements: StatementReport[] = [];
+  parsed.lines.forEach((entry, index) => {
+    if (!entry.ok) {
+      const r = blankReport(entry.line, (entry.kind as StatementReport['kind']), null);
+      r.status = 'error';
+      r.error = entry.error;
+      statements.push(r);
+      return;
+    }
+    const s = entry.statement;
+    const line = s.span.start.line;
+    if (timedOut.has(index)) {
+      const r = blankReport(line, s.kind, nameOf(s));
+      r.status = 'error';
+      r.error = { message: timeLimitMessage(limit), line, column: s.span.start.column };
+      markUnavailable(s, ctx, 'was stopped at the time limit');
+      statements.push(r);
+      return;
+    }
+    options.onStatementStart?.(index, line);
+    startDeadline(limit);
+    try {
+      statements.push(dispatch(s, ctx));
+    } catch (e) {
+      const r = blankReport(line, s.kind, nameOf(s));
+      r.status = 'error';
+      if (e instanceof StatementFailure) r.error = { message: e.message, line: e.line, column: e.column };
+      else if (e instanceof TimeLimitError) r.error = { message: e.message, line, column: s.span.start.column };
+      else r.error = { message: `Internal error while evaluating this statement: ${e instanceof Error ? e.message : String(e)}`, line, column: s.span.start.column };
+      markUnavailable(s, ctx, e instanceof TimeLimitError ? 'was stopped at the time limit' : 'ended with an error');
+      statements.push(r);
+    } finally {
+      clearDeadline();
+    }
+  });
+  return { file: options.file ?? null, ok: statements.every((r) => r.status === 'ok'), statements };
+}

@@ -1,0 +1,92 @@
+/**
+ * The evaluation record of a worksheet: what the computation core returns, what
+ * the server sends to the client, what the command line tool prints with --json.
+ * shared/ imports nothing from src/, server/ or cas/.
+ */
+import { z } from 'zod';
+
+export const STATEMENT_KINDS = [
+  'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'invalid',
+] as const;
+export type StatementKind = (typeof STATEMENT_KINDS)[number];
+
+export const DOMAINS = ['positive', 'negative', 'real', 'complex', 'nonzero'] as const;
+export type Domain = (typeof DOMAINS)[number];
+
+export const complexValue = z.object({ re: z.number(), im: z.number() });
+export type ComplexValue = z.infer<typeof complexValue>;
+
+/** An eigenvalue (or pivot) with its argument in radians, in (-pi, pi]. */
+export const polarValue = z.object({ re: z.number(), im: z.number(), arg: z.number() });
+export type PolarValue = z.infer<typeof polarValue>;
+
+export const STEP_KINDS = [
+  'integrand', 'quadratic-form', 'convergence', 'branch', 'fresnel-phase', 'result',
+  'expect', 'param', 'note', 'numeric-check', 'simplification',
+] as const;
+export type StepKind = (typeof STEP_KINDS)[number];
+
+/** One numbered step of the record: a sentence, a formula, and the numbers that decided it. */
+export const step = z.object({
+  kind: z.enum(STEP_KINDS),
+  text: z.string(),
+  latex: z.string(),
+  /** Eigenvalues of A (at the parameter point named in `at`, if any). */
+  eigenvalues: z.array(polarValue).optional(),
+  /** Pivots d_k of A = L D L^T without pivoting. */
+  pivots: z.array(polarValue).optional(),
+  /** Sum of the eigenvalue arguments: the principal root of det A is right iff it lies in (-pi, pi]. */
+  argumentSum: z.number().optional(),
+  /** Eigenvalues of the real symmetric Re A (convergence) or of B (Fresnel signature). */
+  realEigenvalues: z.array(z.number()).optional(),
+  signature: z.object({ positive: z.number(), negative: z.number() }).optional(),
+  /** A real direction x along which |integrand| grows (divergent integrals). */
+  direction: z.array(z.number()).optional(),
+  /** How many parameter points a sampled verdict rests on, and how many agreed. */
+  samples: z.object({ count: z.number(), agreeing: z.number() }).optional(),
+  /** Parameter values of a decisive sample point. */
+  at: z.record(z.string(), complexValue).optional(),
+  /** Largest relative deviation seen in a numeric comparison. */
+  relativeError: z.number().optional(),
+});
+export type Step = z.infer<typeof step>;
+
+export const statementError = z.object({ message: z.string(), line: z.number(), column: z.number() });
+export type StatementError = z.infer<typeof statementError>;
+
+export const CONVERGENCE = ['absolute', 'oscillatory', 'divergent', 'unknown'] as const;
+export type Convergence = (typeof CONVERGENCE)[number];
+export const PROOF = ['proved', 'sampled'] as const;
+export type Proof = (typeof PROOF)[number];
+
+export const resultRecord = z.object({
+  text: z.string(),
+  latex: z.string(),
+  /** Present when the result has no free parameters. */
+  value: complexValue.nullable(),
+});
+export type ResultRecord = z.infer<typeof resultRecord>;
+
+export const branchRecord = z.object({ principalSqrtDetCorrect: z.boolean(), reason: z.string() });
+export type BranchRecord = z.infer<typeof branchRecord>;
+
+export const statementReport = z.object({
+  line: z.number(),
+  kind: z.enum(STATEMENT_KINDS),
+  name: z.string().nullable(),
+  status: z.enum(['ok', 'failed', 'error']),
+  convergence: z.enum(CONVERGENCE).nullable(),
+  proof: z.enum(PROOF).nullable(),
+  result: resultRecord.nullable(),
+  branch: branchRecord.nullable(),
+  steps: z.array(step),
+  error: statementError.nullable(),
+});
+export type StatementReport = z.infer<typeof statementReport>;
+
+export const worksheetReport = z.object({
+  file: z.string().nullable(),
+  ok: z.boolean(),
+  statements: z.array(statementReport),
+});
+export type WorksheetReport = z.infer<typeof worksheetReport>;
