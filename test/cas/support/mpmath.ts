@@ -48,7 +48,7 @@ print(json.dumps(out))
 /** lmin: smallest eigenvalue of Re A; shift: a bound on where the integrand peaks (|Re of A^-1 J|). */
 export function mpmathGaussians(cases: { A: Cx[][]; J: Cx[]; lmin: number; shift: number }[]): Cx[] {
   const input = JSON.stringify(cases.map((c) => ({ A: c.A.map((r) => r.map((z) => [z.re, z.im])), J: c.J.map((z) => [z.re, z.im]), lmin: c.lmin, shift: c.shift })));
-  const r = spawnSync('python3', ['-c', SCRIPT], { input, encoding: 'utf8', timeout: 120_000 });
+  const r = spawnSync(process.env['SHEETWISE_PYTHON'] ?? 'python3', ['-c', SCRIPT], { input, encoding: 'utf8', timeout: 120_000 });
   if (r.status !== 0) throw new Error(`mpmath failed: ${r.stderr}`);
   return (JSON.parse(r.stdout) as [number, number][]).map(([re, im]) => ({ re, im }));
 }

@@ -1,0 +1,29 @@
+// The few parts of autocannon's API the load benchmark uses (the package ships no types).
+declare module 'autocannon' {
+  namespace autocannon {
+    interface Histogram {
+      average: number;
+      p50: number;
+      p99: number;
+    }
+    interface Result {
+      requests: Histogram;
+      latency: Histogram;
+      errors: number;
+      non2xx: number;
+    }
+    interface Client {
+      setHeaders(headers: Record<string, string>): void;
+    }
+    interface Options {
+      url: string;
+      title?: string;
+      connections?: number;
+      duration?: number;
+      requests?: { method: string; path: string }[];
+      setupClient?: (client: Client) => void;
+    }
+  }
+  function autocannon(options: autocannon.Options): Promise<autocannon.Result>;
+  export default autocannon;
+}
