@@ -39,7 +39,8 @@ try {
   run(join(projectDir, 'node_modules/.bin/ng'), ['build', '--configuration', 'production'], { cwd: projectDir, quiet: true });
   bench('client bundle sizes', 'node', ['bench/client-size.mjs']);
 } finally {
-  cluster.stop();
+  // A cluster that was running before this run (another run's) is left running.
+  if (cluster.startedHere) cluster.stop();
 }
 
 const machine = { cores: cpus().length, memoryGiB: Math.round(totalmem() / 2 ** 30), node: process.version, date: new Date().toISOString() };

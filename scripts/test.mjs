@@ -102,7 +102,8 @@ try {
     lines.push(`${suite.name.padEnd(7)} ${String(counts.passed).padStart(5)} passed ${String(counts.failed).padStart(4)} failed  ${((Date.now() - t0) / 1000).toFixed(1)} s`);
   }
 } finally {
-  cluster.stop();
+  // A cluster that was running before this run (another run's) is left running.
+  if (cluster.startedHere) cluster.stop();
 }
 log(`Summary (${((Date.now() - started) / 1000).toFixed(0)} s):`);
 for (const line of lines) log(`  ${line}`);

@@ -2,6 +2,7 @@ export interface Cluster {
   bin: string;
   dataDir: string;
   port: number;
+  startedHere: boolean;
   url: (db: string) => string;
   stop: () => void;
 }

@@ -86,7 +86,8 @@ export function startCluster({ projectDir, name, port }) {
   const status = isRoot
     ? spawnSync('runuser', ['-u', 'postgres', '--', join(bin, 'pg_ctl'), '-D', dataDir, 'status'], { stdio: 'ignore' })
     : spawnSync(join(bin, 'pg_ctl'), ['-D', dataDir, 'status'], { stdio: 'ignore' });
-  if (status.status !== 0) {
+  const startedHere = status.status !== 0;
+  if (startedHere) {
     pgTool(
       bin,
       'pg_ctl',
@@ -99,6 +100,8 @@ export function startCluster({ projectDir, name, port }) {
     dataDir,
     port,
     url: (db) => `postgres://postgres@127.0.0.1:${port}/${db}`,
+    /** False when another run had started it: that run stops it, not this one. */
+    startedHere,
     stop: () => stopCluster(bin, dataDir),
   };
 }

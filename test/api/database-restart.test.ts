@@ -2,6 +2,7 @@
 // and it reconnects by itself afterwards. Runs on a private cluster of its own, so
 // stopping it does not disturb the other test files.
 import assert from 'node:assert/strict';
+import { rmSync } from 'node:fs';
 import { after, before, test } from 'node:test';
 import { startCluster, ensureDatabase, type Cluster } from '../../scripts/lib/postgres.mjs';
 import { startServer, type RunningServer } from '../../server/main.js';
@@ -19,6 +20,8 @@ before(async () => {
 after(async () => {
   await server?.stop().catch(() => {});
   cluster?.stop();
+  // A throwaway cluster: leave no data folder behind.
+  if (cluster) rmSync(cluster.dataDir, { recursive: true, force: true });
 });
 
 test('503 while the database is down, normal service after it is back', async () => {
