@@ -47,13 +47,20 @@ function load(title: string, paths: string[]): Promise<autocannon.Result> {
     title,
     connections: 50,
     duration: DURATION,
-    requests: paths.map((path) => ({ method: 'GET', path })),
-    // Each connection is its own signed-in session.
-    setupClient: (client) => client.setHeaders({ cookie: cookieOf(sessions[next++ % sessions.length]!) }),
+    // Each connection is its own signed-in session (the context is per connection).
+    requests: paths.map((path) => ({
+      method: 'GET',
+      path,
+      setupRequest: (req: Record<string, unknown>, context: { cookie?: string }) => {
+        context.cookie ??= cookieOf(sessions[next++ % sessions.length]!);
+        return { ...req, headers: { ...(req['headers'] as object), cookie: context.cookie } };
+      },
+    })),
   });
 }
 
 const summary = (r: autocannon.Result) => ({
+  statusCodes: (r as unknown as { statusCodeStats?: Record<string, { count: number }> }).statusCodeStats,
   requestsPerSecond: Math.round(r.requests.average),
   p50Ms: r.latency.p50,
   p99Ms: r.latency.p99,

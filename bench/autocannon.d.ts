@@ -20,7 +20,7 @@ declare module 'autocannon' {
       title?: string;
       connections?: number;
       duration?: number;
-      requests?: { method: string; path: string }[];
+      requests?: { method: string; path: string; setupRequest?: (req: Record<string, unknown>, context: { cookie?: string }) => Record<string, unknown> }[];
       setupClient?: (client: Client) => void;
     }
   }

@@ -1,3 +1,5 @@
+import { availableParallelism } from 'node:os';
+
 /** Server configuration, read once from the environment. */
 export interface ServerConfig {
   port: number;
@@ -28,7 +30,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     sessionSecret: env['SESSION_SECRET'] ?? 'sheetwise-development-secret-change-me',
     clientDir: env['CLIENT_DIR'] ?? 'dist/sheetwise/browser',
     statementTimeLimitMs: Number(env['STATEMENT_TIME_LIMIT_MS'] ?? 5000),
-    evaluationWorkers: Number(env['EVALUATION_WORKERS'] ?? 2),
+    // One core stays with the event loop, so lists and saves stay quick while worksheets evaluate.
+    evaluationWorkers: Number(env['EVALUATION_WORKERS'] ?? Math.max(1, availableParallelism() - 1)),
     secureCookies: env['SECURE_COOKIES'] === '1',
     logLevel: env['LOG_LEVEL'] ?? 'info',
     loginRateLimit: Number(env['LOGIN_RATE_LIMIT'] ?? 20),
