@@ -7,7 +7,12 @@ import { evaluateParam } from './statements/param.js';
 import { evaluateIntegral } from './statements/integral.js';
 import { evaluateExpect } from './statements/expect.js';
 import { evaluateNote } from './statements/note.js';
-import { evaluateLater } from './statements/later.js';
+import { evaluateRotate } from './statements/rotate.js';
+import { evaluateContinue } from './statements/continue.js';
+import { evaluateCompare } from './statements/compare.js';
+import { evaluateVerify } from './statements/verify.js';
+import { evaluateLet } from './statements/let.js';
+import { evaluateLimit } from './statements/limit.js';
 import { clearDeadline, startDeadline, TimeLimitError, timeLimitMessage } from './deadline.js';
 
 export interface EvaluateOptions {
@@ -27,7 +32,12 @@ function dispatch(s: Statement, ctx: Context): StatementReport {
     case 'integral': return evaluateIntegral(s, ctx);
     case 'expect': return evaluateExpect(s, ctx);
     case 'note': return evaluateNote(s);
-    default: return evaluateLater(s);
+    case 'rotate': return evaluateRotate(s, ctx);
+    case 'continue': return evaluateContinue(s, ctx);
+    case 'compare': return evaluateCompare(s, ctx);
+    case 'verify': return evaluateVerify(s, ctx);
+    case 'let': return evaluateLet(s, ctx);
+    case 'limit': return evaluateLimit(s, ctx);
   }
 }
 
@@ -35,16 +45,20 @@ function nameOf(s: Statement): string | null {
   switch (s.kind) {
     case 'param': return s.names.map((n) => n.name).join(', ');
     case 'integral': case 'expect': case 'let': return s.name.name;
+    case 'rotate': return s.as.name;
+    case 'compare': return `${s.target.name}, ${s.other.name}`;
+    case 'continue': case 'verify': case 'limit': return s.target.name;
     default: return null;
   }
 }
 
 /** Results an errored statement would have defined, so that later statements say what they depend on. */
 function markUnavailable(s: Statement, ctx: Context, why: string): void {
-  if (s.kind === 'integral' || s.kind === 'let') {
+  if (s.kind === 'integral' || s.kind === 'let' || s.kind === 'rotate') {
     const line = s.span.start.line;
-    if (!ctx.results.has(s.name.name)) {
-      ctx.results.set(s.name.name, { line, unavailable: `${s.name.name} (line ${line}), which ${why}`, expr: null, params: [], valueAt: null });
+    const n = s.kind === 'rotate' ? s.as.name : s.name.name;
+    if (!ctx.results.has(n)) {
+      ctx.results.set(n, { line, unavailable: `${n} (line ${line}), which ${why}`, expr: null, params: [], valueAt: null });
     }
   }
   if (s.kind === 'param') {

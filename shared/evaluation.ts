@@ -4,6 +4,7 @@
  * shared/ imports nothing from src/, server/ or cas/.
  */
 import { z } from 'zod';
+import { diagramData } from './diagram.js';
 
 export const STATEMENT_KINDS = [
   'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'invalid',
@@ -23,6 +24,7 @@ export type PolarValue = z.infer<typeof polarValue>;
 export const STEP_KINDS = [
   'integrand', 'quadratic-form', 'convergence', 'branch', 'fresnel-phase', 'result',
   'expect', 'param', 'note', 'numeric-check', 'simplification',
+  'rotation', 'legality', 'jacobian', 'continuation', 'continuation-event', 'sheet', 'comparison', 'derived', 'limit',
 ] as const;
 export type StepKind = (typeof STEP_KINDS)[number];
 
@@ -48,6 +50,33 @@ export const step = z.object({
   at: z.record(z.string(), complexValue).optional(),
   /** Largest relative deviation seen in a numeric comparison. */
   relativeError: z.number().optional(),
+  /** Rotation angles (radians) per rotated variable, and how the swept family was checked. */
+  angles: z.object({
+    method: z.enum(['exact', 'grid']),
+    /** How many angles of the sweep were checked (grid), or 0 when decided exactly. */
+    count: z.number(),
+    values: z.record(z.string(), z.number()),
+    /** First angle (fraction t of the sweep times each angle) where the integrand grows; absent when legal. */
+    firstBad: z.number().nullable().optional(),
+  }).optional(),
+  /** A numeric quadrature: value, error estimate, integrand evaluations, time. */
+  quadrature: z.object({
+    value: complexValue,
+    errorEstimate: z.number(),
+    evaluations: z.number(),
+    timeMs: z.number(),
+    tolerance: z.number(),
+    timedOut: z.boolean(),
+  }).optional(),
+  /** A continuation event: what kind, and where on the path (parameter values). */
+  event: z.object({
+    kind: z.string(),
+    at: z.record(z.string(), complexValue),
+    /** Distance from the path to a branch point, when one was located. */
+    distance: z.number().optional(),
+  }).optional(),
+  /** The ratio of a comparison at the sampled points is exp(i m pi/4) with this m. */
+  phaseOverPiQuarter: z.number().nullable().optional(),
 });
 export type Step = z.infer<typeof step>;
 
@@ -81,6 +110,18 @@ export const statementReport = z.object({
   branch: branchRecord.nullable(),
   steps: z.array(step),
   error: statementError.nullable(),
+  /** Complex-plane diagram data (contours, sectors, cuts, paths, tracks, eigenvalues). */
+  diagram: diagramData.optional(),
+  /** rotate: whether the rotation is allowed over the whole swept family (result is null when false). */
+  legal: z.boolean().optional(),
+  /** continue: the sheet of the end value relative to the principal 1/sqrt(det A). */
+  sheet: z.enum(['principal', 'minus-principal']).optional(),
+  /** compare: equal, equal up to a constant phase, or different. */
+  verdict: z.enum(['equal', 'phase', 'different']).optional(),
+  /** compare: m when the ratio is exp(i m pi/4), else null. */
+  phaseOverPiQuarter: z.number().int().nullable().optional(),
+  /** verify: whether the quadrature agrees with the closed form within the tolerance. */
+  agrees: z.boolean().optional(),
 });
 export type StatementReport = z.infer<typeof statementReport>;
 

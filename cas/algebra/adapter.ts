@@ -96,3 +96,8 @@ export function simplifiesToZero(a: Expr, b: Expr): boolean {
   const out = run((r) => nerdamer(`simplify((${emit(a, r)})-(${emit(b, r)}))`).toString());
   return out !== null && out.t === 'num' && Number(out.v) === 0;
 }
+
+/** The package's limit of e as v -> to (a number expression or Infinity), or null. Check it before use. */
+export function limitOf(e: Expr, v: string, to: Expr | 'inf'): Expr | null {
+  return run((r) => nerdamer(`limit(${emit(e, r)}, ${r.safe(v)}, ${to === 'inf' ? 'Infinity' : emit(to, r)})`).toString());
+}

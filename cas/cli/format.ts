@@ -11,7 +11,11 @@ function statementLines(s: StatementReport): string[] {
     if (s.result.value) out.push(`  value: ${s.result.value.re} ${s.result.value.im < 0 ? '-' : '+'} ${Math.abs(s.result.value.im)}*i`);
   }
   if (s.branch) out.push(`  branch: principal sqrt(det A) ${s.branch.principalSqrtDetCorrect ? 'is correct' : 'is NOT correct everywhere'}`);
-  if (s.kind === 'integral' || s.kind === 'expect') s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${st.text}`));
+  if (s.legal !== undefined) out.push(`  legal: ${s.legal}`);
+  if (s.sheet) out.push(`  sheet: ${s.sheet}`);
+  if (s.verdict) out.push(`  verdict: ${s.verdict}${s.phaseOverPiQuarter !== undefined && s.phaseOverPiQuarter !== null ? ` (phase ${s.phaseOverPiQuarter}*pi/4)` : ''}`);
+  if (s.agrees !== undefined) out.push(`  agrees: ${s.agrees}`);
+  if (s.kind !== 'param' && s.kind !== 'note') s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${st.text}`));
   return out;
 }
 

@@ -23,6 +23,18 @@ export type Statement =
   | { kind: 'expect'; name: NameRef; expr: Expr; span: Span }
   | { kind: 'note'; text: string; span: Span }
   | { kind: 'let'; name: NameRef; expr: Expr; span: Span }
-  | { kind: 'rotate' | 'continue' | 'compare' | 'verify' | 'limit'; rest: string; span: Span };
+  | { kind: 'rotate'; target: NameRef; moves: RotateMove[]; as: NameRef; span: Span }
+  | { kind: 'continue'; target: NameRef; params: NameRef[]; points: Expr[][]; at: Binding[]; span: Span }
+  | { kind: 'compare'; target: NameRef; other: NameRef; span: Span }
+  | { kind: 'verify'; target: NameRef; at: Binding[]; tolerance: Expr | null; span: Span }
+  | { kind: 'limit'; target: NameRef; param: NameRef; to: Expr | 'inf' | '-inf'; span: Span };
+
+/** One variable of a rotation: x -> FACTOR*x (the factor read off at evaluation), or x -> steepest. */
+export type RotateMove =
+  | { variable: NameRef; to: 'steepest' }
+  | { variable: NameRef; to: Expr };
+
+/** NAME = EXPR inside an `at` clause. */
+export interface Binding { name: NameRef; value: Expr }
 
 export type StatementKindName = Statement['kind'];

@@ -27,7 +27,7 @@ End "the end of the line"
   = !.
 
 Statement
-  = Param / Integral / Expect / Note / Let / Later
+  = Param / Integral / Expect / Note / Let / Rotate / Continue / Compare / Verify / Limit
 
 Param
   = "param" __ names:NameList _ ":" _ domain:Domain
@@ -60,9 +60,63 @@ Note
 StringLit "a text in double quotes"
   = '"' chars:$[^"\n]* '"' { return chars; }
 
-Later
-  = kind:$("rotate" / "continue" / "compare" / "verify" / "limit") !IdChar rest:$[^#\n]*
-    { return { kind, rest: rest.trim(), span: span() }; }
+Rotate
+  = "rotate" __ target:NameRef _ ":" _ moves:MoveList _ "as" __ as:NameRef
+    { return { kind: 'rotate', target, moves, as, span: span() }; }
+
+MoveList
+  = head:Move tail:(_ "," _ m:Move { return m; })* { return [head, ...tail]; }
+
+Move "a rotation such as x -> exp(i*theta)*x or x -> steepest"
+  = variable:NameRef _ "->" _ "steepest" !IdChar { return { variable, to: 'steepest' }; }
+  / variable:NameRef _ "->" _ to:Expr { return { variable, to }; }
+
+Continue
+  = "continue" __ target:NameRef _ ":" _ params:ParamTuple _ "along" __ points:PathPoints at:AtClause?
+    { return { kind: 'continue', target, params, points, at: at ?? [], span: span() }; }
+
+ParamTuple "a parameter, or parameters in parentheses"
+  = "(" _ names:NameList _ ")" { return names; }
+  / n:NameRef { return [n]; }
+
+PathPoints
+  = head:PathPoint tail:(_ "->" _ p:PathPoint { return p; })+ { return [head, ...tail]; }
+
+PathPoint "a point of the path (an expression, or a tuple in parentheses)"
+  = "(" _ head:Expr tail:(_ "," _ e:Expr { return e; })+ _ ")" { return [head, ...tail]; }
+  / e:Expr { return [e]; }
+
+AtClause
+  = __ "at" __ bindings:BindingList { return bindings; }
+
+BindingList
+  = head:Binding tail:(_ "," _ b:Binding { return b; })* { return [head, ...tail]; }
+
+Binding "a value such as k = 2"
+  = name:NameRef _ "=" _ value:Expr { return { name, value }; }
+
+Compare
+  = "compare" __ target:NameRef __ "with" __ other:NameRef
+    { return { kind: 'compare', target, other, span: span() }; }
+
+Verify
+  = "verify" __ target:NameRef at:AtClause? tol:ToleranceClause?
+    { return { kind: 'verify', target, at: at ?? [], tolerance: tol ?? null, span: span() }; }
+
+ToleranceClause
+  = __ "with" __ "tolerance" __ t:(SciNumber / Expr) { return t; }
+
+SciNumber "a number"
+  = v:$([0-9]+ ("." [0-9]+)? [eE] "-"? [0-9]+) { return { t: 'num', v: String(Number(v)), span: span() }; }
+
+Limit
+  = "limit" __ target:NameRef _ ":" _ param:NameRef _ "->" _ to:LimitPoint
+    { return { kind: 'limit', target, param, to, span: span() }; }
+
+LimitPoint "a value, inf or -inf"
+  = "-" _ "inf" !IdChar { return '-inf'; }
+  / "inf" !IdChar { return 'inf'; }
+  / Expr
 
 Expr
   = Sum

@@ -10,6 +10,7 @@ const RESERVED = new Set<string>([
   'i', 'pi', 'e', 'd', ...FUNCTIONS, ...INTERNAL_FUNCTIONS,
   'param', 'integral', 'expect', 'note', 'let', 'rotate', 'continue', 'compare', 'verify', 'limit',
   'positive', 'negative', 'real', 'complex', 'nonzero',
+  'along', 'as', 'at', 'with', 'steepest', 'inf', 'tolerance',
 ]);
 
 function at(span: { start: { line: number; column: number } }, message: string): ParseError {
@@ -62,6 +63,30 @@ export function checkStatementNames(s: Statement): ParseError | null {
     }
     case 'expect': return checkExprNames(s.expr);
     case 'let': return checkName(s.name) ?? checkExprNames(s.expr);
+    case 'rotate': {
+      const e = checkName(s.as);
+      if (e) return e;
+      for (const m of s.moves) { const me = m.to === 'steepest' ? null : checkExprNames(m.to); if (me) return me; }
+      const seen = new Set<string>();
+      for (const m of s.moves) {
+        if (seen.has(m.variable.name)) return at(m.variable.span, `The variable "${m.variable.name}" is rotated twice in one statement.`);
+        seen.add(m.variable.name);
+      }
+      return null;
+    }
+    case 'continue': {
+      for (const p of s.points) for (const e of p) { const pe = checkExprNames(e); if (pe) return pe; }
+      for (const b of s.at) { const be = checkExprNames(b.value); if (be) return be; }
+      for (const p of s.points) if (p.length !== s.params.length) {
+        return at(s.span, `Each point of the path needs ${s.params.length} value${s.params.length > 1 ? 's' : ''}, one for each of ${s.params.map((n) => n.name).join(', ')}.`);
+      }
+      return null;
+    }
+    case 'verify': {
+      for (const b of s.at) { const be = checkExprNames(b.value); if (be) return be; }
+      return s.tolerance ? checkExprNames(s.tolerance) : null;
+    }
+    case 'limit': return s.to === 'inf' || s.to === '-inf' ? null : checkExprNames(s.to);
     default: return null;
   }
 }

@@ -1,8 +1,20 @@
 /** What earlier statements leave for later ones: declared parameters and named results. */
-import type { Domain, StatementReport } from '../../shared/evaluation.js';
+import type { Convergence, Domain, StatementReport } from '../../shared/evaluation.js';
 import type { Expr } from '../lang/ast.js';
 import type { Point } from '../domains/sample.js';
 import type { C } from '../numeric/cmatrix.js';
+import type { QuadraticForm } from '../gaussian/form.js';
+
+/** What a Gaussian result keeps for rotate, continue and verify: the integrand as written and its quadratic form. */
+export interface GaussianInfo {
+  integrand: Expr;
+  vars: string[];
+  form: QuadraticForm;
+  prefactor: Expr;
+  convergence: Convergence;
+  /** Set on a rotated result: the result it came from and the angle of each of its variables (0 when not rotated). */
+  contour: { of: string; angles: number[]; labels: string[] } | null;
+}
 
 export interface ParamInfo { domain: Domain; line: number }
 
@@ -15,6 +27,7 @@ export interface ResultInfo {
   params: string[];
   /** The value on the continuous branch at a parameter point; null where it diverges. */
   valueAt: ((p: Point) => C | null) | null;
+  gaussian?: GaussianInfo;
 }
 
 export interface Context {

@@ -304,7 +304,7 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
       text: `${name} = ${complexText(value!, 15)}, from (2 pi)^(n/2) det(A)^(-1/2) exp(J^T A^-1 J / 2 + c) in double precision on the branch above.`,
       latex: `${toLatex({ t: 'name', name })} = ${toLatex(e)}`,
     });
-    setResult(ctx, name, line, e, params, structural, split.prefactor);
+    setResult(ctx, name, line, e, params, structural, split.prefactor, { integrand: s.integrand, vars, convergence });
     return report;
   }
   const cf = closedForm({
@@ -327,7 +327,7 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
     latex: `${toLatex({ t: 'name', name })} = ${cf.latex}`,
     samples: { count: good.length, agreeing: cf.verified ? good.length : 0 },
   });
-  setResult(ctx, name, line, cf.expr, params, structural, split.prefactor);
+  setResult(ctx, name, line, cf.expr, params, structural, split.prefactor, { integrand: s.integrand, vars, convergence });
   return report;
 }
 
@@ -344,10 +344,12 @@ function whereSigns(params: readonly string[], points: readonly Point[], signs: 
   return ` (right for sampled ${range(1)}, wrong for sampled ${range(-1)})`;
 }
 
-function setResult(ctx: Context, name: string, line: number, expr: Expr, params: string[], form: QuadraticForm, prefactor: Expr): void {
+function setResult(ctx: Context, name: string, line: number, expr: Expr, params: string[], form: QuadraticForm, prefactor: Expr,
+  g: { integrand: Expr; vars: string[]; convergence: Convergence }): void {
   ctx.results.set(name, {
     line, unavailable: null, expr, params,
     valueAt: (p) => analyzeAt(numericForm(form, prefactor, p)).value,
+    gaussian: { ...g, form, prefactor, contour: null },
   });
 }
 

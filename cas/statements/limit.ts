@@ -1,0 +1,142 @@
+/**
+ * limit NAME : p -> v   and   limit NAME : p -> inf.
+ * A finite limit: the closed form with p = v substituted (or the algebra package's limit), checked
+ * numerically by approaching v. At infinity: the leading behaviour C p^a (or a log p + b), with the
+ * next correction where it can be found; the exponents are read off values at large p and the
+ * constants from the algebra package where it gives them, always checked numerically.
+ */
+import type { StatementReport } from '../../shared/evaluation.js';
+import type { Expr, Statement } from '../lang/ast.js';
+import { Complex } from 'complex.js';
+import { div, mul, name as nameExpr, num, pow, sub, call } from '../expr/build.js';
+import { evaluate } from '../expr/evaluate.js';
+import { freeNames, substitute } from '../expr/names.js';
+import { toLatex, toText } from '../expr/print.js';
+import { tidy, rational } from '../expr/tidy.js';
+import { limitOf, rewriteChecked } from '../algebra/adapter.js';
+import { describePoint, samplePoints, type Point } from '../domains/sample.js';
+import { complexText } from '../gaussian/describe.js';
+import { complexExpr } from '../expr/numberExpr.js';
+import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
+import { resultNamed } from './shared.js';
+
+type V = { re: number; im: number };
+const rd = (a: V, b: V) => Math.hypot(a.re - b.re, a.im - b.im) / Math.max(Math.hypot(b.re, b.im), 1e-300);
+
+function exprAt(e: Expr, p: Point): V | null {
+  try { const z = evaluate(e, p); return Number.isFinite(z.re) && Number.isFinite(z.im) ? { re: z.re, im: z.im } : null; } catch { return null; }
+}
+
+export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Context): StatementReport {
+  const line = s.span.start.line;
+  const name = s.target.name;
+  const report = blankReport(line, 'limit', name);
+  const r = resultNamed(ctx, s.target, line, 'limit');
+  const pn = s.param.name;
+  if (!r.params.includes(pn)) throw new StatementFailure(`${name} does not depend on ${pn}.`, line, s.param.span.start.column);
+  const others = r.params.filter((x) => x !== pn);
+  const pts = others.length ? samplePoints(domainsOf(ctx, others), others, 6, 99) : [new Map()];
+  const at = (p: Point, x: Complex) => { const q = new Map(p); q.set(pn, x); return r.valueAt!(q); };
+  const dom = ctx.params.get(pn)!.domain;
+  if (s.to !== 'inf' && s.to !== '-inf') {
+    const to = s.to;
+    if (freeNames(to).size) throw new StatementFailure('The limit point must be a number.', line, s.span.start.column);
+    const v = evaluate(to, new Map());
+    let candidate: Expr | null = null;
+    let how = '';
+    if (r.expr) {
+      const sub1 = rewriteChecked('simplify', substitute(r.expr, new Map([[pn, to]])), pts);
+      if (pts.every((p) => exprAt(sub1.expr, p))) { candidate = tidy(sub1.expr); how = `substituting ${pn} = ${toText(to)} in the closed form`; }
+      else { const l = limitOf(r.expr, pn, to); if (l) { candidate = tidy(l); how = 'the algebra package\'s limit'; } }
+    }
+    // numeric check: approach v along the domain's direction
+    const dir = dom === 'negative' ? -1 : 1;
+    let worst = 0; let checked = 0;
+    for (const p of pts) {
+      const target = candidate ? exprAt(candidate, p) : null;
+      const near = at(p, new Complex(v.re + dir * 1e-7, v.im));
+      if (!near) continue;
+      if (target) { worst = Math.max(worst, rd(near, target)); checked++; }
+    }
+    const holds = candidate !== null && checked > 0 && worst < 1e-5;
+    const numeric = at(pts[0]!, new Complex(v.re + dir * 1e-7, v.im));
+    report.result = holds
+      ? { text: toText(candidate!), latex: toLatex(candidate!), value: freeNames(candidate!).size ? null : exprAt(candidate!, new Map()) }
+      : { text: numeric ? complexText(numeric, 10) : 'none', latex: numeric ? complexText(numeric, 10) : '\\text{none}', value: numeric };
+    report.steps.push({
+      kind: 'limit',
+      text: holds
+        ? `lim ${pn} -> ${toText(to)} of ${name} = ${toText(candidate!)}, by ${how}; checked numerically at ${pn} = ${toText(to)} ${dir > 0 ? '+' : '-'} 1e-7 for ${checked} value${checked > 1 ? 's' : ''} of the other parameters (largest relative difference ${worst.toExponential(2)}).`
+        : `No closed form for the limit was confirmed; numerically ${name} tends to about ${numeric ? complexText(numeric, 10) : 'no finite value'}${others.length ? ` at ${describePoint(pts[0]!)}` : ''} (checked numerically only).`,
+      latex: `\\lim_{${pn} \\to ${toLatex(to)}} ${name} = ${report.result.latex}`,
+      samples: { count: checked, agreeing: holds ? checked : 0 },
+      relativeError: worst,
+    });
+    return report;
+  }
+  // p -> +-inf along the real axis (the param's direction)
+  const sign = s.to === 'inf' ? 1 : -1;
+  if ((dom === 'positive' && sign < 0) || (dom === 'negative' && sign > 0)) throw new StatementFailure(`${pn} is ${dom}, so it cannot tend to ${s.to}.`, line, s.span.start.column);
+  const p0 = pts[0]!;
+  const f = (x: number) => at(p0, new Complex(sign * x, 0));
+  const xs = [1e4, 1e5, 1e6];
+  const vals = xs.map(f);
+  if (vals.some((v) => !v)) throw new StatementFailure(`${name} has no value at large ${pn}.`, line, s.span.start.column);
+  const mag = vals.map((v) => Math.hypot(v!.re, v!.im));
+  const slope = Math.log(mag[2]! / mag[1]!) / Math.log(10);
+  const [pq, qq] = rational(slope);
+  const alpha = Math.abs(pq / qq - slope) < 1e-3 && qq <= 12 ? pq / qq : slope;
+  const x2 = xs[2]!;
+  // logarithmic growth: f(10x) - f(x) constant
+  const d1 = { re: vals[2]!.re - vals[1]!.re, im: vals[2]!.im - vals[1]!.im };
+  const d0 = { re: vals[1]!.re - vals[0]!.re, im: vals[1]!.im - vals[0]!.im };
+  const logLike = Math.abs(alpha) < 1e-3 && Math.hypot(d1.re, d1.im) > 1e-9 * mag[2]! && rd(d1, d0) < 1e-3;
+  const P = nameExpr(pn);
+  let lead: Expr; let leadText: string; let correction = '';
+  let checkedWords = 'checked numerically';
+  if (logLike) {
+    const a = { re: d1.re / Math.log(10), im: d1.im / Math.log(10) };
+    const b = { re: vals[2]!.re - a.re * Math.log(x2), im: vals[2]!.im - a.im * Math.log(x2) };
+    lead = tidy(mul(complexExpr(a), call('log', P)));
+    leadText = `${toText(lead)} + ${complexText(b, 10)}`;
+    correction = `; the constant term is about ${complexText(b, 10)} at ${others.length ? describePoint(p0) : 'these values'}`;
+  } else {
+    const power = alpha === 0 ? num(1) : pow(P, complexExpr({ re: alpha, im: 0 }));
+    // C from the algebra package where it gives one, else numerically
+    let C: Expr | null = null;
+    if (r.expr) {
+      const l = limitOf(div(r.expr, power), pn, 'inf');
+      if (l && pts.every((p) => { const c = exprAt(l, p); const q = new Map(p); q.set(pn, new Complex(1e7, 0)); const w = r.valueAt!(q); return c && w && rd({ re: w.re / 1e7 ** alpha, im: w.im / 1e7 ** alpha }, c) < 1e-4 * (1 + 0); })) {
+        C = tidy(rewriteChecked('simplify', l, pts).expr);
+        checkedWords = `the constant from the algebra package's limit, checked numerically at ${pn} = 1e7 for ${pts.length} value${pts.length > 1 ? 's' : ''} of the other parameters`;
+      }
+    }
+    if (!C) {
+      const v = vals[2]!;
+      C = complexExpr({ re: v.re / x2 ** alpha, im: v.im / x2 ** alpha });
+      checkedWords = `the constant read off at ${pn} = 1e6 (checked numerically only)${others.length ? ` at ${describePoint(p0)}` : ''}`;
+    }
+    lead = tidy(mul(C, power));
+    leadText = toText(lead);
+    // next correction: f - lead ~ D p^beta
+    const rest = xs.map((x, k) => { const L = exprAt(lead, new Map([...p0, [pn, new Complex(sign * x, 0)]])); return L ? { re: vals[k]!.re - L.re, im: vals[k]!.im - L.im } : null; });
+    if (rest.every((z) => z && Math.hypot(z.re, z.im) > 0)) {
+      const beta = Math.log(Math.hypot(rest[1]!.re, rest[1]!.im) / Math.hypot(rest[0]!.re, rest[0]!.im)) / Math.log(10);
+      const [bp, bq] = rational(beta);
+      if (Math.abs(bp / bq - beta) < 1e-2 && bq <= 12 && beta < alpha - 0.5 && r.expr) {
+        const b = bp / bq;
+        const l2 = limitOf(div(sub(r.expr, lead), pow(P, complexExpr({ re: b, im: 0 }))), pn, 'inf');
+        const ok = l2 && pts.every((p) => { const c = exprAt(l2, p); const q = new Map(p); q.set(pn, new Complex(1e3, 0)); const w = r.valueAt!(q); const L = exprAt(lead, q); return c && w && L && rd({ re: (w.re - L.re) / 1e3 ** b, im: (w.im - L.im) / 1e3 ** b }, c) < 1e-3; });
+        if (ok) correction = `; next correction ${toText(tidy(mul(tidy(rewriteChecked('simplify', l2!, pts).expr), pow(P, complexExpr({ re: b, im: 0 })))))} (from the algebra package's limit, checked numerically at ${pn} = 1000)`;
+        else correction = `; the next correction falls off like ${pn}^(${Number(b.toPrecision(4))}) (checked numerically only)`;
+      }
+    }
+  }
+  report.result = { text: leadText, latex: toLatex(lead), value: null };
+  report.steps.push({
+    kind: 'limit',
+    text: `As ${pn} -> ${s.to}, ${name} ~ ${leadText}${logLike ? ' (logarithmic growth, read off values at large ' + pn + '; checked numerically only)' : ` (the power ${pn}^(${Number(alpha.toPrecision(6))}) read off values at ${pn} = 1e4, 1e5, 1e6; ${checkedWords})`}${correction}.`,
+    latex: `${name} \\sim ${toLatex(lead)}\\quad (${pn} \\to ${s.to === 'inf' ? '\\infty' : '-\\infty'})`,
+  });
+  return report;
+}
