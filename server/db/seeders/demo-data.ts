@@ -55,4 +55,28 @@ integral Z3 = exp(-((1/3 + i)*x^2 + (1/3 + i)*y^2 + (1/3 + i)*z^2)/2) d(x, y, z)
 note "1/sqrt(det A) with the principal root has the wrong sign here; the record says why."
 `,
   },
+  {
+    title: 'Continuing the mixing past its branch point',
+    source: `# The two-mode result as a function of a complex mixing g: det A = m^2 + g^2
+# vanishes at g = +-i*m. Paths to g = 2*i*m that pass right and left of i*m end on
+# different sheets; the record names the sheet and the cut crossed.
+param m : positive
+param g : real
+integral Zc = exp(-(m*u^2 + 2*i*g*u*v + m*v^2)/2) d(u, v)
+continue Zc : g along 0 -> m/2 + i*m -> 2*i*m at m = 1
+continue Zc : g along 0 -> -m/2 + i*m -> 2*i*m at m = 1
+verify Zc at m = 2, g = 0.7
+`,
+  },
+  {
+    title: 'Rotating an oscillatory mode onto a decaying one',
+    source: `# exp(i*w*x^2/2) only converges as an i*epsilon limit. Rotating x by pi/4 sweeps
+# through contours on which the integrand never grows, and lands on exp(-w*x^2/2).
+param w : positive
+integral F = exp(i*w*x^2/2) d(x)
+rotate F : x -> exp(i*pi/4)*x as FE
+compare F with FE
+verify FE at w = 3
+`,
+  },
 ];
