@@ -11,7 +11,8 @@ function umzugFor(sequelize: Sequelize, folder: 'migrations' | 'seeders', tableN
   return new Umzug<MigrationContext>({
     migrations: { glob: ['[0-9]*.ts', { cwd: join(here, folder) }] },
     context: { queryInterface: sequelize.getQueryInterface(), sequelize },
-    storage: new SequelizeStorage({ sequelize, tableName }),
+    // A model name of its own per table: with the default name both storages would share one model.
+    storage: new SequelizeStorage({ sequelize, tableName, modelName: `umzug_${tableName}` }),
     logger: undefined,
   });
 }
@@ -24,6 +25,11 @@ export async function migrate(sequelize: Sequelize): Promise<string[]> {
 
 /** Seeds the demo data once: a seeder that ran is recorded and never runs again. */
 export async function seedDemo(sequelize: Sequelize): Promise<string[]> {
+  // Databases made before seeds had a table of their own recorded them with the migrations.
+  await sequelize.query(`CREATE TABLE IF NOT EXISTS schema_seeds (name varchar(255) PRIMARY KEY)`);
+  await sequelize.query(
+    `INSERT INTO schema_seeds (name) SELECT name FROM schema_migrations WHERE name LIKE '%demo%' ON CONFLICT DO NOTHING`,
+  );
   const done = await umzugFor(sequelize, 'seeders', 'schema_seeds').up();
   return done.map((m) => m.name);
 }
