@@ -42,6 +42,44 @@ export const routes: Routes = [
     loadComponent: () => import('./admin/admin-users/admin-users').then((m) => m.AdminUsers),
   },
   {
+    path: 'forgot-password',
+    title: 'Forgot your password · Sheetwise',
+    canActivate: [guestGuard],
+    loadComponent: () => import('./auth/forgot-password/forgot-password').then((m) => m.ForgotPassword),
+  },
+  {
+    path: 'reset-password/:token',
+    title: 'Choose a new password · Sheetwise',
+    loadComponent: () => import('./auth/reset-password/reset-password').then((m) => m.ResetPassword),
+  },
+  {
+    path: 'unlock/:token',
+    title: 'Unlock your account · Sheetwise',
+    loadComponent: () => import('./auth/unlock/unlock').then((m) => m.Unlock),
+  },
+  {
+    path: 'invitations/:token',
+    title: 'Invitation · Sheetwise',
+    loadComponent: () => import('./invitations/invitation-page/invitation-page').then((m) => m.InvitationPage),
+  },
+  {
+    path: 'admin/outbox',
+    title: 'Outbox · Sheetwise',
+    canActivate: [adminGuard],
+    loadComponent: () => import('./admin/admin-outbox/admin-outbox').then((m) => m.AdminOutbox),
+  },
+  {
+    path: 'reviews',
+    title: 'Reviews · Sheetwise',
+    canActivate: [authGuard],
+    loadComponent: () => import('./reviews/review-queue/review-queue').then((m) => m.ReviewQueue),
+  },
+  {
+    path: 'referee/:token',
+    title: 'Referee copy · Sheetwise',
+    loadComponent: () => import('./referee/referee-page/referee-page').then((m) => m.RefereePage),
+  },
+  {
     path: '**',
     title: 'Not found · Sheetwise',
     loadComponent: () => import('./not-found/not-found').then((m) => m.NotFound),

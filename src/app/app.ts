@@ -3,6 +3,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterOutlet } from '@angular/router';
 import { AuthStore } from './core/auth/auth-store';
+import { ThemeStore } from './core/theme/theme-store';
 import { LoadingTracker } from './core/loading/loading-tracker';
 import { AccountMenu } from './layout/account-menu/account-menu';
 import { Logo } from './layout/logo/logo';
@@ -18,4 +19,5 @@ import { Logo } from './layout/logo/logo';
 export class App {
   protected readonly auth = inject(AuthStore);
   protected readonly loading = inject(LoadingTracker);
+  protected readonly theme = inject(ThemeStore);
 }

@@ -175,7 +175,8 @@ test('a continuation draws its path with numbered events on the diagram', async 
   await card(page, 6).waitFor({ timeout: 30_000 });
   const text = await editorText(page);
   const lineCount = text.endsWith('\n') ? text.split('\n').length - 1 : text.split('\n').length;
-  await typeAtEnd(page, ['continue Zmix : g along 0 -> 2*i*m']);
+  // Round the branch point at g = i*m on its right (a straight path would run into it).
+  await typeAtEnd(page, ['continue Zmix : g along 0 -> m/2 + i*m -> 2*i*m at m = 1']);
   const cont = card(page, lineCount + 1);
   await cont.waitFor({ timeout: 30_000 });
   await cont.locator('button.goto').click();

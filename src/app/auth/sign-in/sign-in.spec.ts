@@ -52,6 +52,14 @@ describe('SignIn', () => {
     expect(el.textContent).toContain('Enter a valid e-mail address.');
   });
 
+  it('links to the forgotten-password page', async () => {
+    const fixture = TestBed.createComponent(SignIn);
+    await fixture.whenStable();
+    const link = (fixture.nativeElement as HTMLElement).querySelector('[data-testid="forgot-password-link"]');
+    expect(link?.getAttribute('href')).toBe('/forgot-password');
+    expect(link?.textContent?.trim()).toBe('Forgot your password?');
+  });
+
   it('goes to the groups after signing in', async () => {
     const router = TestBed.inject(Router);
     const navigate = vi.spyOn(router, 'navigateByUrl').mockResolvedValue(true);

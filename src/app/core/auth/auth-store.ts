@@ -1,6 +1,6 @@
 import { HttpClient, HttpErrorResponse } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
-import { Observable, catchError, map, of, shareReplay, tap, throwError } from 'rxjs';
+import { Observable, catchError, map, of, shareReplay, switchMap, tap, throwError } from 'rxjs';
 import type { LoginBody, RegisterBody, UserDto } from '@shared/api';
 
 /** Who is signed in. The one place that talks to /api/auth. */
@@ -44,6 +44,31 @@ export class AuthStore {
     );
   }
 
+  /** Ask the server again who we are (after a sign-in that happened elsewhere, e.g. accepting an invitation). */
+  refresh(): Observable<UserDto | null> {
+    this.loading$ = null;
+    return this.ensureLoaded();
+  }
+
+  /** Mail a reset link if the address has an account; the answer says so without telling whether it has. */
+  requestPasswordReset(email: string): Observable<string> {
+    return this.withSession(() =>
+      this.http.post<{ message: string }>('/api/auth/password-reset', { email }).pipe(map((r) => r.message)),
+    );
+  }
+
+  /** Choose a new password with the token from the reset mail. */
+  resetPassword(token: string, password: string): Observable<void> {
+    return this.withSession(() => this.http.post<void>('/api/auth/password-reset/confirm', { token, password }));
+  }
+
+  /** Unlock an account locked after failed sign-ins, with the token from the unlock mail. */
+  unlock(token: string): Observable<string> {
+    return this.withSession(() =>
+      this.http.post<{ message: string }>('/api/auth/unlock', { token }).pipe(map((r) => r.message)),
+    );
+  }
+
   signOut(): Observable<void> {
     return this.http.post<void>('/api/auth/logout', {}).pipe(
       // Even if the server call fails, the client forgets the user.
@@ -57,6 +82,17 @@ export class AuthStore {
   forget(): void {
     this.current.set(null);
     this.loading$ = of(null);
+  }
+
+  /**
+   * A page opened straight from a mail link may not have the XSRF-TOKEN cookie yet; the
+   * server sets it on any API answer, so ask who we are (once) before a state-changing call.
+   */
+  private withSession<T>(call: () => Observable<T>): Observable<T> {
+    return this.ensureLoaded().pipe(
+      catchError(() => of(null)),
+      switchMap(() => call()),
+    );
   }
 
   private accept(user: UserDto): void {

@@ -31,6 +31,15 @@ export function apiErrorMessage(err: unknown): string {
   return 'Something went wrong. Try again.';
 }
 
+/** The machine-readable code of a failed request (`invitation_used`, …), or null. */
+export function apiErrorCode(err: unknown): string | null {
+  if (err instanceof HttpErrorResponse) {
+    const code = (err.error as Partial<ApiErrorBody> | null)?.error?.code;
+    return typeof code === 'string' ? code : null;
+  }
+  return null;
+}
+
 /** The field-level messages of a 400, keyed by field path. */
 export function apiErrorDetails(err: unknown): Record<string, string> {
   const out: Record<string, string> = {};

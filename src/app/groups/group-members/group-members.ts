@@ -1,6 +1,7 @@
+import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
-import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormGroup, FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -9,22 +10,24 @@ import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { catchError, of, switchMap, tap } from 'rxjs';
 import { GROUP_ROLES, addMemberBody, roleCan, type GroupRole, type MemberDto } from '@shared/api';
+import { INVITATION_DAYS, inviteBody, type InvitationDto } from '@shared/collaboration';
 import { applySchemaIssues, fieldMessage } from '../../core/forms/schema-errors';
-import { apiErrorMessage } from '../../core/http/api-error';
+import { apiErrorDetails, apiErrorMessage } from '../../core/http/api-error';
 import { Notifier } from '../../core/notify/notifier';
+import { InvitationsApi } from '../../invitations/invitations-api';
 import { GroupsApi } from '../groups-api';
+import { ROLE_DESCRIPTIONS } from '../roles';
 
-export const ROLE_DESCRIPTIONS: Record<GroupRole, string> = {
-  owner: 'manages members and the group, edits worksheets',
-  author: 'creates and edits worksheets',
-  reviewer: 'reads and reviews results',
-  reader: 'reads only',
-};
+export { ROLE_DESCRIPTIONS };
 
-/** The members of a group; the owner adds people by e-mail, changes roles, removes them. */
+/**
+ * The members of a group; the owner invites people by e-mail (a link by mail), adds
+ * existing accounts directly, changes roles, removes members and withdraws invitations.
+ */
 @Component({
   selector: 'app-group-members',
   imports: [
+    DatePipe,
     ReactiveFormsModule,
     MatButtonModule,
     MatFormFieldModule,
@@ -39,6 +42,7 @@ export const ROLE_DESCRIPTIONS: Record<GroupRole, string> = {
 })
 export class GroupMembers {
   private readonly api = inject(GroupsApi);
+  private readonly invitationsApi = inject(InvitationsApi);
   private readonly notifier = inject(Notifier);
 
   readonly groupId = input.required<number>();
@@ -59,6 +63,19 @@ export class GroupMembers {
   protected readonly busyUser = signal<number | null>(null);
   protected readonly adding = signal(false);
   private readonly reload = signal(0);
+
+  protected readonly invitationDays = INVITATION_DAYS;
+  protected readonly invitations = signal<InvitationDto[]>([]);
+  protected readonly invitationsError = signal<string | null>(null);
+  protected readonly inviting = signal(false);
+  protected readonly inviteError = signal<string | null>(null);
+  protected readonly busyInvitation = signal<number | null>(null);
+  protected readonly invitationColumns = ['email', 'role', 'invitedBy', 'expiresAt', 'actions'];
+
+  protected readonly inviteForm = inject(NonNullableFormBuilder).group({
+    email: ['', Validators.required],
+    role: ['author' as GroupRole, Validators.required],
+  });
 
   protected readonly addForm = inject(NonNullableFormBuilder).group({
     email: ['', Validators.required],
@@ -86,13 +103,33 @@ export class GroupMembers {
         this.loading.set(false);
         if (members) this.members.set(members);
       });
+
+    // Pending invitations: only owners may see them.
+    toObservable(computed(() => ({ groupId: this.groupId(), manage: this.canManage(), reload: this.reload() })))
+      .pipe(
+        tap(() => this.invitationsError.set(null)),
+        switchMap(({ groupId, manage }) =>
+          manage
+            ? this.invitationsApi.pending(groupId).pipe(
+                catchError((err: unknown) => {
+                  this.invitationsError.set(apiErrorMessage(err));
+                  return of(null);
+                }),
+              )
+            : of([]),
+        ),
+        takeUntilDestroyed(),
+      )
+      .subscribe((invitations) => {
+        if (invitations) this.invitations.set(invitations);
+      });
   }
 
   protected retry(): void {
     this.reload.update((n) => n + 1);
   }
 
-  protected add(): void {
+  protected add(directive?: FormGroupDirective): void {
     const parsed = addMemberBody.safeParse(this.addForm.getRawValue());
     if (!parsed.success) {
       applySchemaIssues(this.addForm, parsed.error.issues);
@@ -103,11 +140,55 @@ export class GroupMembers {
       next: (member) => {
         this.adding.set(false);
         this.members.update((list) => [...list.filter((m) => m.userId !== member.userId), member]);
-        this.addForm.reset({ email: '', role: parsed.data.role });
+        this.resetForm(this.addForm, directive, { email: '', role: parsed.data.role });
         this.notifier.info(`${member.displayName} is now ${this.article(member.role)} ${member.role}.`);
       },
       error: (err: unknown) => {
         this.adding.set(false);
+        this.notifier.error(err);
+      },
+    });
+  }
+
+  protected invite(directive?: FormGroupDirective): void {
+    if (this.inviting()) return;
+    const parsed = inviteBody.safeParse(this.inviteForm.getRawValue());
+    if (!parsed.success) {
+      applySchemaIssues(this.inviteForm, parsed.error.issues);
+      return;
+    }
+    this.inviteError.set(null);
+    this.inviting.set(true);
+    this.invitationsApi.invite(this.groupId(), parsed.data).subscribe({
+      next: (invitation) => {
+        this.inviting.set(false);
+        this.invitations.update((list) => [invitation, ...list.filter((i) => i.id !== invitation.id)]);
+        this.resetForm(this.inviteForm, directive, { email: '', role: parsed.data.role });
+        this.notifier.info(`Invitation sent to ${invitation.email}.`);
+      },
+      error: (err: unknown) => {
+        this.inviting.set(false);
+        // A 409 (already a member) or a 429 says what to do instead: show it beside the form.
+        this.inviteError.set(apiErrorMessage(err));
+        applySchemaIssues(
+          this.inviteForm,
+          Object.entries(apiErrorDetails(err)).map(([path, message]) => ({ path: [path], message })),
+        );
+      },
+    });
+  }
+
+  protected revoke(invitation: InvitationDto): void {
+    if (!window.confirm(`Withdraw the invitation to ${invitation.email}? Its link stops working.`)) return;
+    this.busyInvitation.set(invitation.id);
+    this.invitationsApi.revoke(this.groupId(), invitation.id).subscribe({
+      next: () => {
+        this.busyInvitation.set(null);
+        this.invitations.update((list) => list.filter((i) => i.id !== invitation.id));
+        this.notifier.info(`The invitation to ${invitation.email} was withdrawn.`);
+      },
+      error: (err: unknown) => {
+        this.busyInvitation.set(null);
         this.notifier.error(err);
       },
     });
@@ -149,6 +230,16 @@ export class GroupMembers {
 
   protected describe(role: GroupRole): string {
     return ROLE_DESCRIPTIONS[role];
+  }
+
+  /** Empty a form after sending it; through its directive, so the emptied field is not flagged by the last submit. */
+  private resetForm(
+    form: FormGroup,
+    directive: FormGroupDirective | undefined,
+    value: { email: string; role: GroupRole },
+  ): void {
+    if (directive) directive.resetForm(value);
+    else form.reset(value);
   }
 
   private article(role: GroupRole): string {

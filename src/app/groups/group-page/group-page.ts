@@ -12,6 +12,9 @@ import { LIMITS, groupBody, roleCan, type GroupSummaryDto } from '@shared/api';
 import { AuthStore } from '../../core/auth/auth-store';
 import { apiErrorMessage } from '../../core/http/api-error';
 import { Notifier } from '../../core/notify/notifier';
+import { ActivityList } from '../../activity/activity-list/activity-list';
+import { ImportPanel } from '../../files/import-panel/import-panel';
+import { GroupReviews } from '../../reviews/group-reviews/group-reviews';
 import { GroupMembers } from '../group-members/group-members';
 import { GroupsApi } from '../groups-api';
 import { WorksheetTable } from '../worksheet-table/worksheet-table';
@@ -27,6 +30,9 @@ import { WorksheetTable } from '../worksheet-table/worksheet-table';
     MatTabsModule,
     GroupMembers,
     WorksheetTable,
+    ImportPanel,
+    GroupReviews,
+    ActivityList,
   ],
   templateUrl: './group-page.html',
   styleUrl: './group-page.scss',
@@ -49,6 +55,7 @@ export class GroupPage {
   protected readonly error = signal<string | null>(null);
   protected readonly userId = computed(() => this.auth.user()?.id ?? null);
   protected readonly canManage = computed(() => roleCan(this.group()?.role, 'manageGroup'));
+  protected readonly canImport = computed(() => roleCan(this.group()?.role, 'editWorksheets'));
   protected readonly renaming = signal(false);
   protected readonly newName = signal('');
   protected readonly renameError = signal<string | null>(null);

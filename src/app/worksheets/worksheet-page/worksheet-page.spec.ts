@@ -1,9 +1,44 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { Component, input, output } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
+import { of } from 'rxjs';
 import type { GroupRole, WorksheetDto } from '@shared/api';
+import { CodeEditor, type EditorProblem } from '../editor/code-editor';
+import { ConflictDiff } from '../editor/conflict-diff';
+import { EvaluationApi } from '../evaluation-api';
+import { FIXTURE_REPORT } from '../testing/report-fixture';
 import { WorksheetPage } from './worksheet-page';
+
+/** Stands in for Monaco (the real editor is tested end to end in the browser). */
+@Component({
+  selector: 'app-code-editor',
+  template: `<textarea data-testid="editor" [value]="value()" [readOnly]="readOnly()" (input)="valueChange.emit($any($event.target).value)"></textarea>`,
+})
+class EditorDouble {
+  readonly value = input('');
+  readonly readOnly = input(false);
+  readonly problems = input<EditorProblem[]>([]);
+  readonly hovers = input<Map<string, string>>(new Map());
+  readonly valueChange = output<string>();
+  readonly cursorLine = output<number>();
+  readonly save = output<void>();
+  readonly evaluateNow = output<void>();
+  readonly nextProblem = output<void>();
+  readonly help = output<void>();
+  static last: EditorDouble | null = null;
+  constructor() {
+    EditorDouble.last = this;
+  }
+}
+
+@Component({ selector: 'app-conflict-diff', template: `<div data-testid="conflict-diff">{{ theirs() }} | {{ mine() }}</div>` })
+class DiffDouble {
+  readonly theirs = input.required<string>();
+  readonly mine = input.required<string>();
+  readonly mineChange = output<string>();
+}
 
 const sheet = (over: Partial<WorksheetDto> = {}): WorksheetDto => ({
   id: 7,
@@ -19,110 +54,158 @@ const sheet = (over: Partial<WorksheetDto> = {}): WorksheetDto => ({
 
 describe('WorksheetPage', () => {
   let http: HttpTestingController;
+  const evaluated: string[] = [];
 
   beforeEach(() => {
+    localStorage.clear();
+    evaluated.length = 0;
     TestBed.configureTestingModule({
       imports: [WorksheetPage],
-      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        {
+          provide: EvaluationApi,
+          useValue: {
+            stored: () => of({ version: 3, report: FIXTURE_REPORT }),
+            evaluateSaved: () => of({ version: 3, report: FIXTURE_REPORT }),
+            evaluateStream: (source: string) => {
+              evaluated.push(source);
+              return of({ type: 'report', report: FIXTURE_REPORT });
+            },
+          },
+        },
+      ],
+    });
+    TestBed.overrideComponent(WorksheetPage, {
+      remove: { imports: [CodeEditor, ConflictDiff] },
+      add: { imports: [EditorDouble, DiffDouble] },
     });
     http = TestBed.inject(HttpTestingController);
   });
 
-  afterEach(() => http.verify());
+  afterEach(() => {
+    // The reviews of the saved version are fetched on opening and after each save.
+    http.match((r) => r.url === '/api/worksheets/7/reviews');
+    http.verify();
+  });
 
-  async function open(role: GroupRole): Promise<{ fixture: ComponentFixture<WorksheetPage>; el: HTMLElement }> {
+  async function open(role: GroupRole, over: Partial<WorksheetDto> = {}) {
     const fixture = TestBed.createComponent(WorksheetPage);
     fixture.componentRef.setInput('id', '7');
     await fixture.whenStable();
-    http.expectOne('/api/worksheets/7').flush({ worksheet: sheet({ role }) });
+    http.expectOne('/api/worksheets/7').flush({ worksheet: sheet({ role, ...over }) });
     await fixture.whenStable();
-    http.expectOne('/api/worksheets/7/versions').flush({ versions: [] });
     http.expectOne('/api/groups/5').flush({
       group: { id: 5, name: 'Mode integrals', role, memberCount: 4, worksheetCount: 4 },
     });
     await fixture.whenStable();
-    expect(fixture.nativeElement.querySelector('[data-testid="back-to-group"]').textContent).toContain('Mode integrals');
     return { fixture, el: fixture.nativeElement as HTMLElement };
   }
 
-  const source = (el: HTMLElement) => el.querySelector<HTMLTextAreaElement>('[data-testid="worksheet-source"]')!;
   const status = (el: HTMLElement) => el.querySelector('[data-testid="save-status"]')!.textContent!.trim();
-
-  async function type(fixture: ComponentFixture<WorksheetPage>, el: HTMLElement, text: string) {
-    source(el).value = text;
-    source(el).dispatchEvent(new Event('input'));
+  const editor = (el: HTMLElement) => el.querySelector<HTMLTextAreaElement>('[data-testid="editor"]')!;
+  async function type(fixture: ComponentFixture<WorksheetPage>, text: string) {
+    editor(fixture.nativeElement).value = text;
+    editor(fixture.nativeElement).dispatchEvent(new Event('input'));
     await fixture.whenStable();
   }
 
   for (const role of ['reader', 'reviewer'] as const) {
     it(`shows the source read-only to a ${role}, with no save control`, async () => {
       const { el } = await open(role);
-      expect(source(el).value).toBe('param k : positive\n');
-      expect(source(el).readOnly).toBe(true);
+      expect(editor(el).value).toBe('param k : positive\n');
+      expect(editor(el).readOnly).toBe(true);
       expect(el.querySelector('[data-testid="save-worksheet"]')).toBeNull();
-      expect(el.querySelector('[data-testid="delete-worksheet"]')).toBeNull();
-      expect(status(el)).toBe('Read only · version 3');
+      expect(status(el)).toContain('Read only · version 3');
     });
   }
 
-  it('lets an author edit and save, carrying the base version', async () => {
+  it('shows the stored findings at once: a card per statement in source order, markers for problems', async () => {
+    const { el } = await open('author');
+    const cards = [...el.querySelectorAll('[data-testid="finding-card"]')];
+    expect(cards.map((c) => c.getAttribute('data-line'))).toEqual(['1', '2', '3', '4']);
+    expect(cards[3].querySelector('[data-testid="finding-error"]')).not.toBeNull();
+    expect(cards[1].querySelector('[data-testid="finding-result"]')).not.toBeNull();
+    expect(EditorDouble.last!.problems()).toEqual([
+      { line: 4, column: 29, message: 'A closing parenthesis is missing before d(x).', severity: 'error' },
+    ]);
+    expect(EditorDouble.last!.hovers().get('Z3')).toContain('sqrt');
+    expect(el.querySelector('[data-testid="evaluation-status"]')!.textContent).toContain('1 problem');
+    expect(evaluated).toEqual([]);
+  });
+
+  it('links cards and lines: clicking a card selects it; moving the cursor highlights its card', async () => {
     const { fixture, el } = await open('author');
-    expect(source(el).readOnly).toBe(false);
-    const save = el.querySelector<HTMLButtonElement>('[data-testid="save-worksheet"]')!;
-    expect(save.disabled).toBe(true);
-
-    await type(fixture, el, 'param k : positive\nparam lam : real\n');
-    expect(status(el)).toBe('Unsaved changes · based on version 3');
-    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(true);
-    save.click();
+    // The first integral is selected at the start, and its plane drawn.
+    expect(el.querySelector('[data-testid="finding-card"].selected')!.getAttribute('data-line')).toBe('2');
+    expect(el.querySelectorAll('[data-testid="diagram"] [data-role="eigenvalue"]').length).toBe(3);
+    el.querySelector<HTMLButtonElement>('[data-testid="finding-card"][data-line="3"] button.goto')!.click();
     await fixture.whenStable();
+    expect(el.querySelector('[data-testid="finding-card"].selected')!.getAttribute('data-line')).toBe('3');
+    expect(el.querySelectorAll('[data-testid="diagram"] [data-role="event"]').length).toBe(2);
+    EditorDouble.last!.cursorLine.emit(4);
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="finding-card"].selected')!.getAttribute('data-line')).toBe('4');
+  });
 
+  it('keeps a local draft while unsaved, saves with the base version, then drops the draft', async () => {
+    const { fixture, el } = await open('author');
+    await type(fixture, 'param k : positive\nparam lam : real\n');
+    expect(status(el)).toContain('Unsaved changes · based on version 3');
+    expect(JSON.parse(localStorage.getItem('sheetwise.draft.7')!).source).toBe('param k : positive\nparam lam : real\n');
+    el.querySelector<HTMLButtonElement>('[data-testid="save-worksheet"]')!.click();
+    await fixture.whenStable();
     const req = http.expectOne('/api/worksheets/7');
     expect(req.request.method).toBe('PUT');
     expect(req.request.body).toEqual({ source: 'param k : positive\nparam lam : real\n', baseVersion: 3 });
     req.flush({ worksheet: sheet({ version: 4, source: 'param k : positive\nparam lam : real\n' }) });
     await fixture.whenStable();
-    http.expectOne('/api/worksheets/7/versions').flush({ versions: [] });
-    await fixture.whenStable();
-    expect(status(el)).toBe('Saved · version 4');
-    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(false);
+    expect(status(el)).toContain('Saved · version 4');
+    expect(localStorage.getItem('sheetwise.draft.7')).toBeNull();
   });
 
-  it('on 409 says who saved meanwhile, keeps the text, and can save it on top', async () => {
+  it('restores a local draft of the same base version after a reload', async () => {
+    localStorage.setItem('sheetwise.draft.7', JSON.stringify({ source: 'typed before reload', title: 'Two coupled modes', baseVersion: 3 }));
+    const { fixture, el } = await open('author');
+    expect(editor(el).value).toBe('typed before reload');
+    expect(el.querySelector('[data-testid="restored-draft"]')).not.toBeNull();
+    fixture.componentInstance.save();
+    await fixture.whenStable();
+    http.expectOne('/api/worksheets/7').flush({ worksheet: sheet({ version: 4, source: 'typed before reload' }) });
+    await fixture.whenStable();
+  });
+
+  it('on 409 shows both versions; keep mine saves on top of theirs', async () => {
     const { fixture, el } = await open('owner');
-    await type(fixture, el, 'my text');
+    await type(fixture, 'my text');
     fixture.componentInstance.save();
     await fixture.whenStable();
     http.expectOne('/api/worksheets/7').flush(
-      {
-        error: { code: 'version_conflict', message: 'Someone saved a newer version.' },
-        current: sheet({ version: 5, updatedBy: 'Ilse Varga', source: 'their text' }),
-      },
+      { error: { code: 'version_conflict', message: 'm' }, current: sheet({ version: 5, updatedBy: 'Ilse Varga', source: 'their text' }) },
       { status: 409, statusText: 'Conflict' },
     );
     await fixture.whenStable();
-
     const panel = el.querySelector('[data-testid="save-conflict"]')!;
     expect(panel.textContent).toContain('Ilse Varga');
-    expect(panel.textContent).toContain('version 5');
-    expect(status(el)).toBe('Not saved: Ilse Varga saved version 5 meanwhile');
-    expect(source(el).value).toBe('my text');
+    expect(el.querySelector('[data-testid="conflict-diff"]')!.textContent).toContain('their text | my text');
+    expect(status(el)).toContain('Not saved: Ilse Varga saved version 5 meanwhile');
+    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(true);
 
-    el.querySelector<HTMLButtonElement>('[data-testid="save-mine"]')!.click();
+    el.querySelector<HTMLButtonElement>('[data-testid="keep-mine"]')!.click();
     await fixture.whenStable();
     const req = http.expectOne('/api/worksheets/7');
     expect(req.request.body).toEqual({ source: 'my text', baseVersion: 5 });
     req.flush({ worksheet: sheet({ version: 6, source: 'my text' }) });
     await fixture.whenStable();
-    http.expectOne('/api/worksheets/7/versions').flush({ versions: [] });
-    await fixture.whenStable();
     expect(el.querySelector('[data-testid="save-conflict"]')).toBeNull();
-    expect(status(el)).toBe('Saved · version 6');
+    expect(status(el)).toContain('Saved · version 6');
   });
 
-  it('"load theirs" shows their text and keeps the user\'s text to bring back', async () => {
+  it('on 409 take theirs loads their text and keeps mine to bring back', async () => {
     const { fixture, el } = await open('author');
-    await type(fixture, el, 'my text');
+    await type(fixture, 'my text');
     fixture.componentInstance.save();
     await fixture.whenStable();
     http.expectOne('/api/worksheets/7').flush(
@@ -130,23 +213,19 @@ describe('WorksheetPage', () => {
       { status: 409, statusText: 'Conflict' },
     );
     await fixture.whenStable();
-
-    el.querySelector<HTMLButtonElement>('[data-testid="load-theirs"]')!.click();
+    el.querySelector<HTMLButtonElement>('[data-testid="take-theirs"]')!.click();
     await fixture.whenStable();
-    http.expectOne('/api/worksheets/7/versions').flush({ versions: [] });
-    await fixture.whenStable();
-    expect(source(el).value).toBe('their text');
-    expect(status(el)).toBe('Version 5');
-
+    expect(editor(el).value).toBe('their text');
+    expect(status(el)).toContain('Version 5');
     el.querySelector<HTMLButtonElement>('[data-testid="bring-back-mine"]')!.click();
     await fixture.whenStable();
-    expect(source(el).value).toBe('my text');
-    expect(status(el)).toBe('Unsaved changes · based on version 5');
+    expect(editor(el).value).toBe('my text');
+    expect(status(el)).toContain('Unsaved changes · based on version 5');
   });
 
   it('shows another save failure in plain words and keeps the text', async () => {
     const { fixture, el } = await open('author');
-    await type(fixture, el, 'kept');
+    await type(fixture, 'kept');
     fixture.componentInstance.save();
     await fixture.whenStable();
     http.expectOne('/api/worksheets/7').flush(
@@ -154,7 +233,49 @@ describe('WorksheetPage', () => {
       { status: 413, statusText: 'Payload Too Large' },
     );
     await fixture.whenStable();
-    expect(status(el)).toBe('Not saved: The worksheet is too large to save.');
-    expect(source(el).value).toBe('kept');
+    expect(status(el)).toContain('Not saved: The worksheet is too large to save.');
+    expect(editor(el).value).toBe('kept');
+  });
+
+  it('lists the keys in a help sheet', async () => {
+    const { el } = await open('author');
+    const sheetEl = el.querySelector('[data-testid="help-sheet"]')!;
+    const text = sheetEl.textContent!;
+    for (const k of ['Ctrl+S', 'Ctrl+Enter', 'F8']) expect(text).toContain(k);
+  });
+
+  it('shows the review status of each card from the server and opens its thread', async () => {
+    const { fixture, el } = await open('author');
+    http.expectOne('/api/worksheets/7/reviews').flush({
+      version: 3,
+      statements: [
+        { key: 'k', line: 1, text: 'param k : positive', status: 'unreviewed', reviews: [] },
+        {
+          key: 'Z3', line: 2, text: 'integral Z3 = …', status: 'confirmed',
+          reviews: [{
+            id: 11, worksheetId: 7, worksheetTitle: 'Two coupled modes', statementKey: 'Z3', statementText: 'integral Z3 = …', version: 3,
+            status: 'confirmed', reviewer: 'Tobiah Osei', reviewerId: 3, requestedBy: 'Noor Amsel', requestedAt: '2026-03-01T10:00:00Z',
+            decidedAt: '2026-03-01T11:00:00Z', stale: false, comments: [{ id: 1, author: 'Tobiah Osei', body: 'Checked the branch.', createdAt: '2026-03-01T11:00:00Z' }],
+          }],
+        },
+      ],
+    });
+    await fixture.whenStable();
+    const badge = el.querySelector<HTMLButtonElement>('[data-testid="finding-card"][data-line="2"] [data-testid="review-badge"]')!;
+    expect(badge.dataset['status']).toBe('confirmed');
+    expect(badge.textContent).toContain('Confirmed');
+    badge.click();
+    await fixture.whenStable();
+    const sheet = el.querySelector('[data-testid="review-sheet"]')!;
+    expect(sheet.textContent).toContain('Integral Z3 · line 2');
+    expect(sheet.textContent).toContain('Checked the branch.');
+    expect(sheet.querySelector('[data-testid="ask-review"]')).not.toBeNull();
+  });
+
+  it('offers export to everyone and referee links to authors only', async () => {
+    const { el } = await open('reader');
+    expect(el.querySelector('[data-testid="export-menu"]')).not.toBeNull();
+    expect(el.querySelector('[data-testid="open-files"]')).not.toBeNull();
+    expect(el.querySelector('[data-testid="open-referee"]')).toBeNull();
   });
 });
