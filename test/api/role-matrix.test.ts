@@ -52,6 +52,15 @@ const CASES: Case[] = [
   { name: 'POST invitations', method: 'POST', path: (f) => `/api/groups/${f.groupId}/invitations`, body: () => ({ email: 'invitee@matrix.test', role: 'reader' }), expect: ownerOnly(201) },
   { name: 'GET evaluation (none stored yet)', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/evaluation`, expect: { anon: 401, outsider: 404, admin: 404, reader: 404, reviewer: 404, author: 404, owner: 404 } },
   { name: 'POST evaluation', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/evaluation`, expect: read },
+  { name: 'GET reviews of a worksheet', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/reviews`, expect: read },
+  { name: 'POST review request', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/reviews`, body: (f) => ({ statementKey: 'k', reviewerIds: [f.ids['reviewer']] }), expect: authors(201) },
+  { name: 'GET group reviews', method: 'GET', path: (f) => `/api/groups/${f.groupId}/reviews`, expect: read },
+  { name: 'GET review queue', method: 'GET', path: () => '/api/review-queue', expect: { anon: 401, outsider: 200, admin: 200, reader: 200, reviewer: 200, author: 200, owner: 200 } },
+  { name: 'GET attachments', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/attachments`, expect: read },
+  { name: 'GET export', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/export?format=swk`, expect: read },
+  { name: 'GET referee links', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/referee-links`, expect: authors(200) },
+  { name: 'POST referee link', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/referee-links`, body: () => ({ days: 7 }), expect: authors(201) },
+  { name: 'GET activity', method: 'GET', path: (f) => `/api/groups/${f.groupId}/activity`, expect: read },
   { name: 'POST /api/evaluate', method: 'POST', path: () => '/api/evaluate', body: () => ({ source: '# nothing' }), expect: { anon: 401, outsider: 200, admin: 200, reader: 200, reviewer: 200, author: 200, owner: 200 } },
 ];
 
@@ -86,7 +95,7 @@ async function freshFixture(): Promise<Fixture> {
     const added = await owner.post(`/api/groups/${groupId}/members`, { email: DEMO[role], role });
     assert.equal(added.status, 201, added.text);
   }
-  const sheet = await owner.post(`/api/groups/${groupId}/worksheets`, { title: 'Matrix sheet', source: 'note "v1"' });
+  const sheet = await owner.post(`/api/groups/${groupId}/worksheets`, { title: 'Matrix sheet', source: 'param k : positive\nnote "v1"' });
   assert.equal(sheet.status, 201);
   return { groupId, worksheetId: sheet.json.worksheet.id, ids };
 }
@@ -102,6 +111,23 @@ describe('role matrix', () => {
           assert.equal(typeof res.json?.error?.message, 'string', 'every error carries a message');
           assert.ok(res.json.error.message.length > 10);
         }
+      });
+    }
+  }
+});
+
+// Multipart routes, every role: an upload of a small valid file.
+describe('role matrix: uploads', () => {
+  const uploads: { name: string; path: (f: Fixture) => string; file: [string, string]; expect: Record<Who, number> }[] = [
+    { name: 'POST import preview', path: (f) => `/api/groups/${f.groupId}/imports`, file: ['x.swk', 'note "imported"'], expect: authors(200) },
+    { name: 'POST attachment', path: (f) => `/api/worksheets/${f.worksheetId}/attachments`, file: ['t.csv', 'a,b\n1,2\n'], expect: authors(201) },
+  ];
+  for (const u of uploads) {
+    for (const who of EVERYONE) {
+      test(`${u.name} as ${who} → ${u.expect[who]}`, async () => {
+        const fixture = await freshFixture();
+        const res = await clients.get(who)!.upload(u.path(fixture), ...u.file);
+        assert.equal(res.status, u.expect[who], res.text);
       });
     }
   }
@@ -130,7 +156,7 @@ describe('stored evaluations', () => {
     const made = await reader.post(`/api/worksheets/${fixture.worksheetId}/evaluation`);
     assert.equal(made.status, 200);
     assert.equal(made.json.version, 1);
-    assert.equal(made.json.report.statements[0].kind, 'note');
+    assert.deepEqual(made.json.report.statements.map((s: { kind: string }) => s.kind), ['param', 'note']);
     const stored = await reader.get(`/api/worksheets/${fixture.worksheetId}/evaluation`);
     assert.deepEqual(stored.json, made.json);
     // A new version has no stored report until it is evaluated.

@@ -60,7 +60,7 @@ import { clearDraft, readDraft, writeDraft } from './worksheet-drafts';
 type SaveState = 'idle' | 'saving' | 'saved' | 'conflict' | 'error';
 
 /** Typing pause before a live evaluation, and before an autosave. */
-export const EVALUATE_DELAY_MS = 450;
+export const EVALUATE_DELAY_MS = 250;
 export const AUTOSAVE_DELAY_MS = 1500;
 
 interface EvalRequest {
