@@ -1,9 +1,14 @@
 /**
  * Benchmark of the computation core (not a timed test): a fixed set of
  * statements, numeric n = 1..8 and symbolic n = 1..3, each evaluated repeatedly;
- * prints the median and 95th percentile in milliseconds per statement kind.
+ * a numeric continuation of 1,000 steps for n = 20 and verify for n = 1..3;
+ * prints the median and 95th percentile in milliseconds per statement kind, and
+ * a `BENCH_JSON` line with the same figures for scripts/bench.mjs.
  */
+import { Complex } from 'complex.js';
 import { evaluateWorksheet } from '../cas/index.js';
+import { followPath } from '../cas/numeric/continuation.js';
+import { cmat, type CMat } from '../cas/numeric/cmatrix.js';
 
 /** A fixed numeric complex symmetric matrix with positive definite real part. */
 function numericIntegral(n: number): string {
@@ -51,8 +56,55 @@ for (let n = 1; n <= 3; n++) rows.push([`integral, symbolic, n = ${n}`, timeStat
 rows.push(['expect, symbolic n = 2', timeStatement(`${PARAMS}\n${SYMBOLIC[2]}\nexpect S2 = 2*pi/sqrt(k^2 + lam^2)`, paramCount + 1, 15)]);
 rows.push(['param', timeStatement(PARAMS, 0, 40)]);
 
+// continue: the statement on the two-mode example (n = 2), and the continuation core for n = 20
+// numeric variables, 1,000 steps (integrals over more than four variables take numbers for their
+// parameters, so n = 20 is timed below the statement, with the statement's own options but the step count)
+rows.push(['continue, symbolic n = 2 (statement)', timeStatement(`${PARAMS}\n${SYMBOLIC[2]}\ncontinue S2 : lam along 0 -> 0.6 + i -> 2*i at k = 1`, paramCount + 1, 15)]);
+/** A(lam) = A0 + i lam B: A0 with Re A0 positive definite, B real symmetric, fixed numbers. */
+function continuationMatrix(n: number): (t: Complex[]) => CMat {
+  const a0 = cmat(n); const b = new Float64Array(n * n);
+  for (let r = 0; r < n; r++) for (let c = r; c < n; c++) {
+    const re = r === c ? 2 + 0.05 * r : 0.05 * Math.sin(r + 2 * c);
+    const im = 0.3 * Math.cos(3 * r + c);
+    a0.re[r * n + c] = a0.re[c * n + r] = re; a0.im[r * n + c] = a0.im[c * n + r] = im;
+    b[r * n + c] = b[c * n + r] = r === c ? 0.5 : 0.1 * Math.cos(r * c);
+  }
+  return ([lam]) => {
+    const a = cmat(n);
+    for (let k = 0; k < n * n; k++) { a.re[k] = a0.re[k]! - lam!.im * b[k]!; a.im[k] = a0.im[k]! + lam!.re * b[k]!; }
+    return a;
+  };
+}
+const stepsSeen: number[] = [];
+function timeContinuation(n: number, steps: number, runs: number): number[] {
+  const Aof = continuationMatrix(n);
+  const nodes = [[new Complex(0, 0)], [new Complex(1.5, 0.5)]];
+  followPath(Aof, nodes, { minSteps: steps }); // warm-up
+  const out: number[] = [];
+  for (let r = 0; r < runs; r++) {
+    const t0 = performance.now();
+    const res = followPath(Aof, nodes, { minSteps: steps });
+    out.push(performance.now() - t0);
+    stepsSeen.push(res.samples.length - 1);
+  }
+  return out;
+}
+rows.push(['continue, numeric n = 20, 1000 steps (core)', timeContinuation(20, 1000, 10)]);
+
+// verify: the quadrature of the numeric integrals above, n = 1..3
+for (let n = 1; n <= 3; n++) rows.push([`verify, numeric n = ${n}`, timeStatement(`${numericIntegral(n)}\nverify N${n}`, 1, n === 3 ? 10 : 20)]);
+const evaluations = [1, 2, 3].map((n) => {
+  const report = evaluateWorksheet(`${numericIntegral(n)}\nverify N${n}`);
+  const v = report.statements[1]!;
+  return { n, agrees: v.agrees ?? false, evaluations: v.steps[0]?.quadrature?.evaluations ?? null };
+});
+
 const width = Math.max(...rows.map(([k]) => k.length));
 console.log(`${'statement'.padEnd(width)}  median ms   p95 ms   runs`);
 for (const [kind, xs] of rows) {
   console.log(`${kind.padEnd(width)}  ${percentile(xs, 0.5).toFixed(2).padStart(9)}  ${percentile(xs, 0.95).toFixed(2).padStart(7)}  ${String(xs.length).padStart(5)}`);
 }
+console.log(`continuation n = 20: ${Math.min(...stepsSeen)}-${Math.max(...stepsSeen)} steps per run`);
+for (const e of evaluations) console.log(`verify n = ${e.n}: ${e.evaluations} integrand evaluations, ${e.agrees ? 'agrees' : 'DOES NOT AGREE'} with the closed form`);
+const figures = Object.fromEntries(rows.map(([kind, xs]) => [kind, { medianMs: Number(percentile(xs, 0.5).toFixed(3)), p95Ms: Number(percentile(xs, 0.95).toFixed(3)), runs: xs.length }]));
+console.log(`BENCH_JSON ${JSON.stringify({ cas: { statements: figures, continuationSteps: { min: Math.min(...stepsSeen), max: Math.max(...stepsSeen) }, verify: evaluations } })}`);

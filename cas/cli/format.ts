@@ -1,5 +1,6 @@
 /** The readable (non-JSON) report of the command line tool. */
 import type { StatementReport, WorksheetReport } from '../../shared/evaluation.js';
+import { complexFromParts, quarterPhaseText } from '../gaussian/describe.js';
 
 function statementLines(s: StatementReport): string[] {
   const head = `line ${s.line}  ${s.kind}${s.name ? ` ${s.name}` : ''}: ${s.status}`;
@@ -8,12 +9,12 @@ function statementLines(s: StatementReport): string[] {
   if (s.convergence) out.push(`  convergence: ${s.convergence} (${s.proof === 'proved' ? 'proved' : 'sampled, not proved'})`);
   if (s.result) {
     out.push(`  result: ${s.name ?? ''} = ${s.result.text}`);
-    if (s.result.value) out.push(`  value: ${s.result.value.re} ${s.result.value.im < 0 ? '-' : '+'} ${Math.abs(s.result.value.im)}*i`);
+    if (s.result.value) out.push(`  value: ${complexFromParts(s.result.value.re, s.result.value.im, String)}`);
   }
   if (s.branch) out.push(`  branch: principal sqrt(det A) ${s.branch.principalSqrtDetCorrect ? 'is correct' : 'is NOT correct everywhere'}`);
   if (s.legal !== undefined) out.push(`  legal: ${s.legal}`);
   if (s.sheet) out.push(`  sheet: ${s.sheet}`);
-  if (s.verdict) out.push(`  verdict: ${s.verdict}${s.phaseOverPiQuarter !== undefined && s.phaseOverPiQuarter !== null ? ` (phase ${s.phaseOverPiQuarter}*pi/4)` : ''}`);
+  if (s.verdict) out.push(`  verdict: ${s.verdict}${s.phaseOverPiQuarter !== undefined && s.phaseOverPiQuarter !== null ? ` (phase ${quarterPhaseText(s.phaseOverPiQuarter)})` : ''}`);
   if (s.agrees !== undefined) out.push(`  agrees: ${s.agrees}`);
   if (s.kind !== 'param' && s.kind !== 'note') s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${st.text}`));
   return out;

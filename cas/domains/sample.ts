@@ -1,6 +1,7 @@
 /** Parameter points inside the declared domains, from a fixed seed so that a record is reproducible. */
 import { Complex } from 'complex.js';
 import type { Domain } from '../../shared/evaluation.js';
+import { complexFromParts } from '../gaussian/describe.js';
 
 export type Params = ReadonlyMap<string, Domain>;
 export type Point = Map<string, Complex>;
@@ -67,8 +68,5 @@ export function describePoint(p: Point): string {
 }
 
 export function formatComplex(z: { re: number; im: number }, digits = 6): string {
-  const f = (x: number) => Number(x.toPrecision(digits)).toString();
-  if (z.im === 0) return f(z.re);
-  if (z.re === 0) return `${f(z.im)}*i`;
-  return `${f(z.re)} ${z.im < 0 ? '-' : '+'} ${f(Math.abs(z.im))}*i`;
+  return complexFromParts(z.re, z.im, (x) => Number(x.toPrecision(digits)).toString());
 }

@@ -26,8 +26,19 @@ export function vectorText(v: readonly Expr[]): string { return `(${v.map((e) =>
 export function complexText(z: C, digits = 6): string {
   const re = Math.abs(z.re) < 1e-15 * Math.abs(z.im) ? 0 : z.re;
   const im = Math.abs(z.im) < 1e-15 * Math.abs(z.re) ? 0 : z.im;
-  if (im === 0) return fmt(re, digits);
-  if (re === 0) return `${fmt(im, digits)}*i`;
-  return `${fmt(re, digits)} ${im < 0 ? '-' : '+'} ${fmt(Math.abs(im), digits)}*i`;
+  return complexFromParts(re, im, (x) => fmt(x, digits));
 }
+/**
+ * re + im*i written with f for each part; a unit imaginary part prints as i (0.33333 + i, -i, 2*i).
+ * The one writer of complex numbers in the record's text (and, through complexLatex, its LaTeX).
+ */
+export function complexFromParts(re: number, im: number, f: (x: number) => string): string {
+  if (im === 0) return f(re);
+  const mag = f(Math.abs(im));
+  const imag = mag === '1' ? 'i' : `${mag}*i`;
+  if (re === 0) return im < 0 ? `-${imag}` : imag;
+  return `${f(re)} ${im < 0 ? '-' : '+'} ${imag}`;
+}
+/** exp(m*i*pi/4) in text, with m = 1 and -1 written exp(i*pi/4) and exp(-i*pi/4). */
+export const quarterPhaseText = (m: number) => (m === 1 ? 'exp(i*pi/4)' : m === -1 ? 'exp(-i*pi/4)' : `exp(${m}*i*pi/4)`);
 export const complexLatex = (z: C, digits = 6) => complexText(z, digits).replace(/\*i/g, '\\,i');

@@ -44,7 +44,9 @@ const lerp = (a: Complex[], b: Complex[], s: number) => a.map((z, k) => z.add(b[
 export function followPath(Aof: (t: Complex[]) => CMat, nodes: Complex[][], opts: FollowOptions = {}): FollowResult {
   const n = Aof(nodes[0]!).n;
   const eigenRoute = n <= 8 && !opts.eigenEvery;
-  const eigenEvery = opts.eigenEvery ?? 1;
+  // large n: the square root follows det A through the pivots at every step; eigenvalues (for the tracks and
+  // the branch-point search) every fourth step, where the QR iteration would otherwise dominate the cost
+  const eigenEvery = opts.eigenEvery ?? (eigenRoute ? 1 : 4);
   const segs = nodes.length - 1;
   const hmax = Math.min(1 / 16, opts.minSteps ? segs / opts.minSteps : 1);
   const maxSteps = opts.maxSteps ?? 200000;

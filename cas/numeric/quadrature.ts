@@ -5,10 +5,13 @@
  * quadratic exponent given by numbers (A, J, c and a prefactor) on a real
  * contour; its real part must be negative definite in the variables.
  *
- * Method: adaptive Gauss-Kronrod (7-point Gauss, 15-point Kronrod) with global
- * bisection of the worst interval, nested up to three variables, on a box that
- * holds everything but a relative e^-50 of the integrand's modulus (the box is
- * the bounding box of the ellipsoid where Re S is within 50 of its maximum).
+ * Method: one-dimensional rules nested up to three variables, on a box cut from
+ * the decay rate of the integrand's modulus (see integrateGaussian). The rule by
+ * default is the trapezoidal rule with step halving, which converges like
+ * exp(-const/h^2) on an entire integrand with a Gaussian envelope; the
+ * double-exponential (sinh-sinh) rule and adaptive Gauss-Kronrod (7-point Gauss,
+ * 15-point Kronrod, global bisection of the worst interval) are kept as
+ * interchangeable alternatives and cross-checked against it in the tests.
  */
 
 /** Kronrod nodes on [0, 1] of the 15-point rule (the 7-point Gauss nodes are the odd entries), QUADPACK's constants. */
@@ -181,27 +184,77 @@ export function realPartScore(q: QuadraticIntegrand): number | null {
 
 export interface QuadratureResult {
   re: number; im: number; error: number; evaluations: number; timeMs: number; timedOut: boolean;
+  /** The half-width of the box in units of each level's standard deviation is sqrt(2 * truncation). */
+  truncation: number;
 }
 
 /**
- * The integral of the Gaussian integrand over R^n (n = 1, 2, 3), Re A positive definite.
- * epsRel is the target relative accuracy of the outermost integral.
+ * The trapezoidal rule on [c - half, c + half], starting from at least `intervals` intervals, step halved
+ * (every earlier node kept) until two levels agree to max(epsAbs, epsRel |I|). On the integrands here (an
+ * entire function under a Gaussian envelope, negligible at both ends of the box) the error of a step h is
+ * the aliased part of the integrand's spectrum beyond 2 pi / h, which falls like exp(-const/h^2) once the
+ * step resolves the integrand's highest local frequency; the caller passes a starting count that does, so
+ * that two levels cannot agree by sharing one alias (the k-th alias of h is the 2k-th of h/2).
+ * Error estimate: the last difference (the finer level's own error is far smaller), plus the integrated
+ * error of f.
  */
-export function integrateGaussian(q: QuadraticIntegrand, epsRel: number, budgetMs: number, method: 'gauss-kronrod' | 'double-exponential' = 'double-exponential'): QuadratureResult {
-  const rule = method === 'gauss-kronrod'
-    ? (f: Integrand, c: number, h: number, er: number, ea: number, s: QuadState) => adaptive(f, c - h, c + h, er, ea, s)
-    : doubleExponential;
+export function truncatedTrapezoid(f: Integrand, c: number, half: number, epsRel: number, epsAbs: number, st: QuadState, intervals = 8, maxLevel = 8): [number, number, number] {
+  const out = new Float64Array(3);
+  const a = c - half;
+  let count = Math.max(2, Math.ceil(intervals));
+  let h = (2 * half) / count;
+  let sr = 0; let si = 0; let se = 0;
+  const add = (x: number, w: number) => {
+    f(x, out);
+    st.evaluations++;
+    sr += w * out[0]!; si += w * out[1]!; se += w * Math.abs(out[2]!);
+  };
+  for (let k = 0; k <= count; k++) add(a + k * h, k === 0 || k === count ? 0.5 : 1);
+  let prevRe = sr * h; let prevIm = si * h;
+  for (let level = 1; level <= maxLevel; level++) {
+    if (Date.now() > st.deadline) throw new QuadratureTimeUp();
+    h /= 2; count *= 2;
+    for (let k = 1; k < count; k += 2) add(a + k * h, 1);
+    const re = sr * h; const im = si * h;
+    const diff = Math.hypot(re - prevRe, im - prevIm);
+    if (diff <= Math.max(epsAbs, epsRel * Math.hypot(re, im))) return [re, im, diff + se * h];
+    prevRe = re; prevIm = im;
+  }
+  return [prevRe, prevIm, Infinity];
+}
+
+export type QuadratureMethod = 'trapezoid' | 'double-exponential' | 'gauss-kronrod';
+
+/**
+ * The integral of the Gaussian integrand over R^n (n = 1, 2, 3), Re A positive definite.
+ * epsRel is the target relative accuracy of the whole integral.
+ *
+ * Truncation from the decay rate: |integrand| = |pref| exp(Re S) is a real Gaussian with matrix R = Re A.
+ * Level j integrates x_j (x_0..x_(j-1) fixed) over centre +- sqrt(2 T v_j), v_j its conditional variance
+ * with the inner variables integrated out, so at every level the part left out is at most
+ * erfc(sqrt T) of the integral of |integrand| there; in all at most n erfc(sqrt T) M with
+ * M = integral of |integrand| over R^n (from the Cholesky factor of the real matrix R: a bound on the
+ * tail, never used for the value). T is chosen so that this is a small part of the tolerance, relative
+ * to |I| as a first, coarse, pass measured it (|I| can be far below M when the phase oscillates).
+ *
+ * Starting step of the trapezoidal rule at level j: the integrand's local frequency in x_j,
+ * Im dS/dx_j = Im J_j - (Im A x)_j, is linear, so over the ellipsoid of the remaining variables where
+ * |integrand| is within e^-T of its conditional peak its largest size is |value at the centre| +
+ * sqrt(2 T u^T R_rr^-1 u) (u the row of Im A); the step must put 2 pi / h beyond that by the spread of
+ * the envelope, sqrt(2 T / v_j). The rule then halves the step until two levels agree.
+ */
+export function integrateGaussian(q: QuadraticIntegrand, epsRel: number, budgetMs: number, method: QuadratureMethod = 'trapezoid'): QuadratureResult {
   const n = q.n;
   if (n < 1 || n > 3) throw new Error('integrateGaussian takes one to three variables.');
   const t0 = Date.now();
   const st: QuadState = { evaluations: 0, deadline: t0 + budgetMs };
   const sym = Array.from({ length: n * n }, (_, k) => (q.are[k]! + q.are[(k % n) * n + Math.floor(k / n)]!) / 2);
+  const symIm = Array.from({ length: n * n }, (_, k) => (q.aim[k]! + q.aim[(k % n) * n + Math.floor(k / n)]!) / 2);
   const l = cholesky(sym, n);
   if (!l) throw new Error('The real part of the quadratic form is not positive definite.');
-  // Peak of |integrand| at x0 = (Re A)^-1 Re J. With x_0..x_{j-1} fixed, the remaining variables see the
-  // real Gaussian with matrix R_rr (r = j..n-1): conditional centre and the bounding box of {Re S >= max - T}.
+  // Peak of |integrand| at x0 = R^-1 Re J. With x_0..x_{j-1} fixed, the remaining variables see the
+  // real Gaussian with matrix R_rr (r = j..n-1): conditional centre and variance of x_j.
   const x0 = choleskySolve(l, n, q.jre);
-  const T = 40;
   const levels = Array.from({ length: n }, (_, j) => {
     const m = n - j;
     const rr = Array.from({ length: m * m }, (_, k) => sym[(j + Math.floor(k / m)) * n + j + (k % m)]!);
@@ -213,7 +266,11 @@ export function integrateGaussian(q: QuadraticIntegrand, epsRel: number, budgetM
       for (let k = 0; k < m; k++) s2 += col[k]! * sym[(j + k) * n + f]!;
       return -s2;
     });
-    return { half: Math.sqrt(2 * T * col[0]!), gain };
+    // u^T R_rr^-1 u for u = row j of Im A restricted to r = j..n-1: how far the local frequency can move
+    const u = Array.from({ length: m }, (_, k) => symIm[j * n + j + k]!);
+    const w = choleskySolve(lr, m, u);
+    const chirp = u.reduce((acc, uk, k) => acc + uk * w[k]!, 0);
+    return { variance: col[0]!, gain, chirp: Math.max(chirp, 0) };
   });
   const x = new Float64Array(n);
   const S = (xs: Float64Array): [number, number] => {
@@ -227,11 +284,25 @@ export function integrateGaussian(q: QuadraticIntegrand, epsRel: number, budgetM
   x.set(x0);
   const [peakRe] = S(x);
   const peak = Math.hypot(q.pre, q.pim) * Math.exp(peakRe);
-  const width = levels.map((v) => 2 * v.half);
-  const centre = (j: number) => {
-    let c = x0[j]!;
-    for (let f = 0; f < j; f++) c += levels[j]!.gain[f]! * (x[f]! - x0[f]!);
-    return c;
+  let pivots = 1;
+  for (let j = 0; j < n; j++) pivots *= l[j * n + j]!;
+  const modulusIntegral = peak * Math.pow(2 * Math.PI, n / 2) / pivots;
+  /** Conditional centres of x_j..x_{n-1} given x_0..x_{j-1} (each later one at the centre of the earlier). */
+  const centres = new Float64Array(n);
+  const fillCentres = (j: number) => {
+    for (let k = 0; k < n; k++) {
+      if (k < j) { centres[k] = x[k]!; continue; }
+      let c = x0[k]!;
+      for (let f = 0; f < k; f++) c += levels[k]!.gain[f]! * (centres[f]! - x0[f]!);
+      centres[k] = c;
+    }
+  };
+  /** Largest local frequency in x_j over the conditional ellipsoid, given x_0..x_{j-1}. */
+  const frequency = (j: number, T: number) => {
+    fillCentres(j);
+    let w = q.jim[j]!;
+    for (let k = 0; k < n; k++) w -= symIm[j * n + k]! * centres[k]!;
+    return Math.abs(w) + Math.sqrt(2 * T * levels[j]!.chirp);
   };
   // level j integrates x_j with x_0..x_{j-1} fixed; the innermost sees S = alpha t^2 + beta t + gamma.
   const last = n - 1;
@@ -254,28 +325,62 @@ export function integrateGaussian(q: QuadraticIntegrand, epsRel: number, budgetM
     const cr = m * Math.cos(si); const ci = m * Math.sin(si);
     out[0] = q.pre * cr - q.pim * ci; out[1] = q.pre * ci + q.pim * cr; out[2] = 0;
   };
-  const innerRel = epsRel * 0.1;
-  const level = (j: number): Integrand => {
-    if (j === last) return innermost;
-    const inner = level(j + 1);
-    const innerVolume = width.slice(j + 1).reduce((p, w) => p * w, 1);
-    return (t, out) => {
-      x[j] = t;
-      if (j + 1 === last) prepareInnermost();
-      const c = centre(j + 1); const h = levels[j + 1]!.half;
-      const [re, im, err] = rule(inner, c, h, innerRel, 1e-17 * peak * innerVolume, st);
-      out[0] = re; out[1] = im; out[2] = err;
-    };
+  /** tail bound n erfc(sqrt T) M, with erfc(s) <= exp(-s^2) / (s sqrt(pi)) */
+  const tail = (T: number) => (n * modulusIntegral * Math.exp(-T)) / Math.sqrt(Math.PI * T);
+  /** One 1-D rule at level j around c with half-width half. */
+  const oneD = (j: number, f: Integrand, c: number, half: number, rel: number, abs: number, T: number): [number, number, number] => {
+    if (method === 'gauss-kronrod') return adaptive(f, c - half, c + half, rel, abs, st);
+    if (method === 'double-exponential') return doubleExponential(f, c, half, rel, abs, st);
+    const band = frequency(j, T) + Math.sqrt((2 * T) / levels[j]!.variance);
+    return truncatedTrapezoid(f, c, half, rel, abs, st, Math.max(8, (2 * half * band) / (2 * Math.PI)));
   };
-  if (n === 1) prepareInnermost();
-  let re = 0; let im = 0; let error = 0; let timedOut = false;
+  /**
+   * One nested pass with box parameter T, aiming at a total error of max(rel |I|, abs).
+   * Inner integrals get a tenth of the relative target and an absolute one scaled by the outer box widths
+   * (the error of each inner value is multiplied by at most the outer rules' total weight, the box width).
+   */
+  const pass = (T: number, rel: number, abs: number): [number, number, number] => {
+    const half = levels.map((v) => Math.sqrt(2 * T * v.variance));
+    const level = (j: number): Integrand => {
+      if (j === last) return innermost;
+      const inner = level(j + 1);
+      let outerWidth = 1;
+      for (let k = 0; k <= j; k++) outerWidth *= 2 * half[k]!;
+      const innerAbs = (0.1 * abs) / outerWidth;
+      return (t, out) => {
+        x[j] = t;
+        if (j + 1 === last) prepareInnermost();
+        fillCentres(j + 1);
+        const [re, im, err] = oneD(j + 1, inner, centres[j + 1]!, half[j + 1]!, rel * 0.1, innerAbs, T);
+        out[0] = re; out[1] = im; out[2] = err;
+      };
+    };
+    if (n === 1) prepareInnermost();
+    return oneD(0, level(0), x0[0]!, half[0]!, rel, abs, T);
+  };
+  /** Smallest T (>= 4) with tail(T) <= share. */
+  const truncationFor = (share: number) => {
+    let T = 4;
+    for (let it = 0; it < 50 && tail(T) > share; it++) T = Math.max(T + 0.01, Math.log((n * modulusIntegral) / (share * Math.sqrt(Math.PI * T))));
+    return T;
+  };
+  let re = NaN; let im = NaN; let error = Infinity; let timedOut = false; let T = NaN;
   try {
-    [re, im, error] = rule(level(0), x0[0]!, levels[0]!.half, epsRel, 1e-17 * peak * width.reduce((p, w) => p * w, 1), st);
+    // coarse pass: |I| to a few digits, which sets the absolute targets and the box of the fine pass
+    const coarse = pass(truncationFor(1e-6 * modulusIntegral), 1e-4, 1e-7 * modulusIntegral);
+    let scale = Math.max(Math.hypot(coarse[0], coarse[1]), 1e-12 * modulusIntegral);
+    for (let attempt = 0; attempt < 2; attempt++) {
+      T = truncationFor(0.05 * epsRel * scale);
+      const [fr, fi, fe] = pass(T, epsRel, 0.5 * epsRel * scale);
+      re = fr; im = fi; error = fe + tail(T);
+      const mag = Math.hypot(re, im);
+      // the coarse pass overestimated |I| by much: the box and the absolute targets were too loose
+      if (mag >= 0.5 * scale) break;
+      scale = Math.max(mag, 1e-12 * modulusIntegral);
+    }
   } catch (e) {
     if (!(e instanceof QuadratureTimeUp)) throw e;
     timedOut = true; re = NaN; im = NaN; error = Infinity;
   }
-  // the part outside the box: at most e^-T of the peak times the Gaussian volume, bounded here crudely by the box volume
-  error += Math.exp(-T) * peak * width.reduce((p, w) => p * w, 1);
-  return { re, im, error, evaluations: st.evaluations, timeMs: Date.now() - t0, timedOut };
+  return { re, im, error, evaluations: st.evaluations, timeMs: Date.now() - t0, timedOut, truncation: T };
 }

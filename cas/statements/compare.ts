@@ -10,7 +10,7 @@ import { toLatex, toText } from '../expr/print.js';
 import { tidy } from '../expr/tidy.js';
 import { rewriteChecked } from '../algebra/adapter.js';
 import { describePoint, pointRecord, samplePoints } from '../domains/sample.js';
-import { complexText } from '../gaussian/describe.js';
+import { complexText, quarterPhaseText } from '../gaussian/describe.js';
 import { checkDeadline } from '../deadline.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { resultNamed } from './shared.js';
@@ -27,7 +27,7 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
   const ratios: { p: typeof points[number]; r: { re: number; im: number } }[] = [];
   for (const p of points) {
     checkDeadline();
-    const va = a.valueAt!(p); const vb = b.valueAt!(p);
+    const va = a.valueAt(p); const vb = b.valueAt(p);
     if (!va || !vb || Math.hypot(vb.re, vb.im) === 0) continue;
     const d = vb.re * vb.re + vb.im * vb.im;
     ratios.push({ p, r: { re: (va.re * vb.re + va.im * vb.im) / d, im: (va.im * vb.re - va.re * vb.im) / d } });
@@ -67,7 +67,7 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
     relativeError: spread,
     phaseOverPiQuarter: report.phaseOverPiQuarter,
   });
-  const phaseWords = report.phaseOverPiQuarter !== null ? `exp(${report.phaseOverPiQuarter}*i*pi/4)` : `exp(i*${Number(arg.toPrecision(8))})`;
+  const phaseWords = report.phaseOverPiQuarter !== null ? quarterPhaseText(report.phaseOverPiQuarter) : `exp(i*${Number(arg.toPrecision(8))})`;
   report.steps.push({
     kind: 'comparison',
     text: verdict === 'equal' ? `Verdict: equal (ratio 1 ${where}).`

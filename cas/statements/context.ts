@@ -30,6 +30,9 @@ export interface ResultInfo {
   gaussian?: GaussianInfo;
 }
 
+/** A result that has a value function: what resultNamed hands to the statements that use one. */
+export type AvailableResult = ResultInfo & { unavailable: null; valueAt: NonNullable<ResultInfo['valueAt']> };
+
 export interface Context {
   params: Map<string, ParamInfo>;
   results: Map<string, ResultInfo>;

@@ -16,7 +16,7 @@ import { formFromPoly, type QuadraticForm } from '../gaussian/form.js';
 import { proveConvergence } from '../gaussian/convergenceProof.js';
 import { analyzeAt, numericForm, type PointAnalysis } from '../gaussian/numericModel.js';
 import { closedForm } from '../gaussian/closedForm.js';
-import { complexText, fmt, matrixLatex, matrixText, piMultiple, polar, vectorLatex, vectorText } from '../gaussian/describe.js';
+import { complexText, fmt, matrixLatex, matrixText, piMultiple, polar, quarterPhaseText, vectorLatex, vectorText } from '../gaussian/describe.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 
 type IntegralStatement = Extract<Statement, { kind: 'integral' }>;
@@ -286,7 +286,7 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
       const sig = s0.positive - s0.negative;
       report.steps.push({
         kind: 'fresnel-phase',
-        text: `A = -iB with B real symmetric of signature (${s0.positive}, ${s0.negative}), sig B = ${sig}${symbolic ? ` at all ${sigs.length} sampled points (checked, not proved)` : ''}: det(A)^(-1/2) = |det B|^(-1/2) exp(i*pi*sig/4), phase exp(${sig}*i*pi/4).`,
+        text: `A = -iB with B real symmetric of signature (${s0.positive}, ${s0.negative}), sig B = ${sig}${symbolic ? ` at all ${sigs.length} sampled points (checked, not proved)` : ''}: det(A)^(-1/2) = |det B|^(-1/2) exp(i*pi*sig/4), phase ${quarterPhaseText(sig)}.`,
         latex: `\\det(A)^{-1/2} = \\left|\\det B\\right|^{-1/2} e^{i\\pi \\operatorname{sig}(B)/4},\\quad \\operatorname{sig}(B) = ${sig}`,
         realEigenvalues: s0.ev,
         signature: fresnel,

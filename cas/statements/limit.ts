@@ -36,7 +36,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
   if (!r.params.includes(pn)) throw new StatementFailure(`${name} does not depend on ${pn}.`, line, s.param.span.start.column);
   const others = r.params.filter((x) => x !== pn);
   const pts = others.length ? samplePoints(domainsOf(ctx, others), others, 6, 99) : [new Map()];
-  const at = (p: Point, x: Complex) => { const q = new Map(p); q.set(pn, x); return r.valueAt!(q); };
+  const at = (p: Point, x: Complex) => { const q = new Map(p); q.set(pn, x); return r.valueAt(q); };
   const dom = ctx.params.get(pn)!.domain;
   if (s.to !== 'inf' && s.to !== '-inf') {
     const to = s.to;
@@ -106,7 +106,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
     let C: Expr | null = null;
     if (r.expr) {
       const l = limitOf(div(r.expr, power), pn, 'inf');
-      if (l && pts.every((p) => { const c = exprAt(l, p); const q = new Map(p); q.set(pn, new Complex(1e7, 0)); const w = r.valueAt!(q); return c && w && rd({ re: w.re / 1e7 ** alpha, im: w.im / 1e7 ** alpha }, c) < 1e-4 * (1 + 0); })) {
+      if (l && pts.every((p) => { const c = exprAt(l, p); const q = new Map(p); q.set(pn, new Complex(1e7, 0)); const w = r.valueAt(q); return c && w && rd({ re: w.re / 1e7 ** alpha, im: w.im / 1e7 ** alpha }, c) < 1e-4 * (1 + 0); })) {
         C = tidy(rewriteChecked('simplify', l, pts).expr);
         checkedWords = `the constant from the algebra package's limit, checked numerically at ${pn} = 1e7 for ${pts.length} value${pts.length > 1 ? 's' : ''} of the other parameters`;
       }
@@ -126,7 +126,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
       if (Math.abs(bp / bq - beta) < 1e-2 && bq <= 12 && beta < alpha - 0.5 && r.expr) {
         const b = bp / bq;
         const l2 = limitOf(div(sub(r.expr, lead), pow(P, complexExpr({ re: b, im: 0 }))), pn, 'inf');
-        const ok = l2 && pts.every((p) => { const c = exprAt(l2, p); const q = new Map(p); q.set(pn, new Complex(1e3, 0)); const w = r.valueAt!(q); const L = exprAt(lead, q); return c && w && L && rd({ re: (w.re - L.re) / 1e3 ** b, im: (w.im - L.im) / 1e3 ** b }, c) < 1e-3; });
+        const ok = l2 && pts.every((p) => { const c = exprAt(l2, p); const q = new Map(p); q.set(pn, new Complex(1e3, 0)); const w = r.valueAt(q); const L = exprAt(lead, q); return c && w && L && rd({ re: (w.re - L.re) / 1e3 ** b, im: (w.im - L.im) / 1e3 ** b }, c) < 1e-3; });
         if (ok) correction = `; next correction ${toText(tidy(mul(tidy(rewriteChecked('simplify', l2!, pts).expr), pow(P, complexExpr({ re: b, im: 0 })))))} (from the algebra package's limit, checked numerically at ${pn} = 1000)`;
         else correction = `; the next correction falls off like ${pn}^(${Number(b.toPrecision(4))}) (checked numerically only)`;
       }

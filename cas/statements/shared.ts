@@ -4,13 +4,14 @@ import type { Binding, NameRef } from '../lang/ast.js';
 import { evaluate } from '../expr/evaluate.js';
 import { freeNames } from '../expr/names.js';
 import type { Point } from '../domains/sample.js';
-import { StatementFailure, type Context, type ResultInfo } from './context.js';
+import { StatementFailure, type AvailableResult, type Context } from './context.js';
 
-export function resultNamed(ctx: Context, ref: NameRef, line: number, what: string): ResultInfo {
+export function resultNamed(ctx: Context, ref: NameRef, line: number, what: string): AvailableResult {
   const r = ctx.results.get(ref.name);
   if (!r) throw new StatementFailure(`There is no result named ${ref.name} above this line.`, line, ref.span.start.column);
-  if (r.unavailable || !r.valueAt) throw new StatementFailure(`This ${what} depends on ${r.unavailable ?? `${ref.name}, which has no value`}.`, line, ref.span.start.column);
-  return r;
+  const { unavailable, valueAt } = r;
+  if (unavailable !== null || !valueAt) throw new StatementFailure(`This ${what} depends on ${unavailable ?? `${ref.name}, which has no value`}.`, line, ref.span.start.column);
+  return { ...r, unavailable, valueAt };
 }
 
 /** NAME = EXPR, ... as a point; values must be numbers (no free names). */

@@ -7,9 +7,13 @@ import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import * as math from 'mathjs';
 import { run, statement } from './support/run.js';
-import { relErr, type Cx } from './support/reference.js';
+import { gaussianReference, relErr, sqrtDetAlongPath, type Cx } from './support/reference.js';
+import { integrateGaussian } from '../../cas/numeric/quadrature.js';
 import { agreesWithClosedForm } from '../../cas/statements/verify.js';
 import { worksheetReport } from '../../shared/evaluation.js';
+import { complexLatex, complexText, quarterPhaseText } from '../../cas/gaussian/describe.js';
+import { formatComplex } from '../../cas/domains/sample.js';
+import { formatReport } from '../../cas/cli/format.js';
 
 const fresnel = (a: number): Cx => ({ re: Math.sqrt(Math.PI / Math.abs(a)) * Math.cos(Math.sign(a) * Math.PI / 4), im: Math.sqrt(Math.PI / Math.abs(a)) * Math.sin(Math.sign(a) * Math.PI / 4) });
 const times = (a: Cx, b: Cx): Cx => ({ re: a.re * b.re - a.im * b.im, im: a.re * b.im + a.im * b.re });
@@ -67,27 +71,39 @@ test('two variables: rotating one variable legal, the other not — from the one
 
 /** Independent numeric continuation: mathjs eigenvalues of [[k, i lam], [i lam, k]], roots chosen continuous. */
 function mathjsContinuation(k: number, path: Cx[]): Cx {
+  const asComplex = (v: unknown): math.Complex => {
+    if (typeof v === 'number') return math.complex(v, 0);
+    if (math.isComplex(v)) return v;
+    throw new Error(`mathjs returned a non-numeric eigenvalue: ${String(v)}`);
+  };
+  const dist = (a: math.Complex, b: math.Complex) => Math.hypot(a.re - b.re, a.im - b.im);
+  const STEPS = 2000;
   let roots: math.Complex[] | null = null;
-  let prev: math.Complex[] = [];
+  let prev: math.Complex[] | null = null;
   for (let seg = 0; seg < path.length - 1; seg++) {
-    for (let s = 0; s <= 2000; s++) {
-      const a = path[seg]!; const b = path[seg + 1]!;
-      const lam = math.complex(a.re + (b.re - a.re) * s / 2000, a.im + (b.im - a.im) * s / 2000);
-      const M = math.matrix([[math.complex(k, 0), math.multiply(math.complex(0, 1), lam)], [math.multiply(math.complex(0, 1), lam), math.complex(k, 0)]]);
-      let ev = (math.eigs(M as never, { eigenvectors: false } as never) as unknown as { values: math.Matrix }).values.toArray() as unknown as math.Complex[];
-      ev = ev.map((z) => math.complex(z as never));
-      if (prev.length) { // match to previous
-        const d0 = (math.abs(math.subtract(ev[0]!, prev[0]!) as never) as unknown as number) + (math.abs(math.subtract(ev[1]!, prev[1]!) as never) as unknown as number);
-        const d1 = (math.abs(math.subtract(ev[1]!, prev[0]!) as never) as unknown as number) + (math.abs(math.subtract(ev[0]!, prev[1]!) as never) as unknown as number);
-        if (d1 < d0) ev = [ev[1]!, ev[0]!];
+    const a = path[seg]!; const b = path[seg + 1]!;
+    for (let s = 0; s <= STEPS; s++) {
+      const lam = { re: a.re + (b.re - a.re) * s / STEPS, im: a.im + (b.im - a.im) * s / STEPS };
+      const K = math.complex(k, 0); const iLam = math.complex(-lam.im, lam.re);
+      const { values } = math.eigs([[K, iLam], [iLam, K]], { eigenvectors: false });
+      let ev = (Array.isArray(values) ? values : values.toArray()).map(asComplex);
+      if (ev.length !== 2) throw new Error(`expected two eigenvalues, got ${ev.length}`);
+      if (prev) { // keep each eigenvalue on its own track
+        const same = dist(ev[0]!, prev[0]!) + dist(ev[1]!, prev[1]!);
+        const swapped = dist(ev[1]!, prev[0]!) + dist(ev[0]!, prev[1]!);
+        if (swapped < same) ev = [ev[1]!, ev[0]!];
       }
-      const r = ev.map((z) => math.sqrt(z) as math.Complex);
-      if (roots) for (let j = 0; j < 2; j++) { const d = math.subtract(r[j]!, roots[j]!) as math.Complex; const e = math.add(r[j]!, roots[j]!) as math.Complex; if (math.abs(e as never) < math.abs(d as never)) r[j] = math.multiply(r[j]!, -1) as math.Complex; }
+      const r = ev.map((z) => math.sqrt(z));
+      if (roots) for (let j = 0; j < 2; j++) {
+        const minus = math.complex(-r[j]!.re, -r[j]!.im);
+        if (dist(minus, roots[j]!) < dist(r[j]!, roots[j]!)) r[j] = minus;
+      }
       roots = r; prev = ev;
     }
   }
-  const sq = math.multiply(roots![0]!, roots![1]!) as math.Complex;
-  const v = math.divide(2 * Math.PI, sq) as math.Complex;
+  if (!roots) throw new Error('empty path');
+  const sq = math.multiply(roots[0]!, roots[1]!);
+  const v = asComplex(math.divide(math.complex(2 * Math.PI, 0), sq));
   return { re: v.re, im: v.im };
 }
 
@@ -190,4 +206,52 @@ test('command line JSON contract: legal, sheet, verdict, phaseOverPiQuarter, agr
   assert.equal(byKind('verify').agrees, true); assert.ok(byKind('verify').result!.value);
   assert.ok(byKind('continue').diagram!.paths[0]!.events.length >= 1);
   assert.ok(byKind('rotate').diagram!.sectors.length === 1);
+});
+
+test('numbers in the record: a unit imaginary part prints as i (0.33333 + i, -i, 2*i), in text and LaTeX, in every writer', () => {
+  const cases: [Cx, string, string][] = [
+    [{ re: 1 / 3, im: 1 }, '0.333333 + i', '0.333333 + i'],
+    [{ re: 1 / 3, im: -1 }, '0.333333 - i', '0.333333 - i'],
+    [{ re: 0, im: -1 }, '-i', '-i'],
+    [{ re: 0, im: 1 }, 'i', 'i'],
+    [{ re: 0, im: 2 }, '2*i', '2\\,i'],
+    [{ re: 0.5, im: -2.25 }, '0.5 - 2.25*i', '0.5 - 2.25\\,i'],
+    [{ re: -3, im: 0 }, '-3', '-3'],
+  ];
+  for (const [z, text, latex] of cases) {
+    assert.equal(complexText(z), text);
+    assert.equal(complexLatex(z), latex);
+    assert.equal(formatComplex(z), text);
+  }
+  assert.equal(quarterPhaseText(1), 'exp(i*pi/4)');
+  assert.equal(quarterPhaseText(-1), 'exp(-i*pi/4)');
+  assert.equal(quarterPhaseText(3), 'exp(3*i*pi/4)');
+  // the command line's readable report, and a record's eigenvalue text (two Fresnel factors: eigenvalues -i)
+  const r = run('integral G = exp(-(1 + i)*x^2) d(x)\nverify G');
+  const printed = formatReport(r);
+  assert.doesNotMatch(printed, /[^0-9.]1\*i/, printed);
+  const f = run('param w : positive\nintegral F = exp(i*w*(x^2 + y^2)/2) d(x, y)');
+  const branch = f.statements[1]!.steps.find((x) => x.kind === 'branch')!.text;
+  assert.match(branch, /the eigenvalues are -i \(arg -0\.5\*pi\), -i \(arg -0\.5\*pi\)/, branch);
+  assert.doesNotMatch(JSON.stringify(f), /[^0-9.]1\*i/);
+});
+
+test('verify quadrature: the three interchangeable rules agree, and a case whose inner integrand oscillates fast far from the peak (where halving alone can agree on a shared alias) is right — against (2 pi)^(n/2) det(A)^(-1/2) exp(J^T A^-1 J / 2) by mathjs, Folland App. A (from memory)', () => {
+  const cases: { A: Cx[][]; J: Cx[] }[] = [
+    { A: [[{ re: 1.3, im: 0.4 }]], J: [{ re: 0.2, im: -0.3 }] },
+    { A: [[{ re: 1.2, im: 0.6 }, { re: 0.1, im: -0.3 }], [{ re: 0.1, im: -0.3 }, { re: 0.9, im: 0.2 }]], J: [{ re: 0.3, im: 0.1 }, { re: -0.2, im: 0.4 }] },
+    // Re A = [[0.38, -0.2], [-0.2, 0.8]], Im A with a large off-diagonal entry: the inner local frequency grows with the outer variable
+    { A: [[{ re: 0.37978318494274416, im: -0.6337190352537292 }, { re: -0.19994713759393526, im: -0.9158255094270341 }], [{ re: -0.19994713759393526, im: -0.9158255094270341 }, { re: 0.8017572621778946, im: -0.27933694016157506 }]], J: [{ re: -0.8159532955921969, im: 0.2729609819468861 }, { re: -0.3447764186862746, im: -0.6572688602177748 }] },
+  ];
+  for (const { A, J } of cases) {
+    const n = A.length;
+    const q = { n, are: A.flat().map((z) => z.re), aim: A.flat().map((z) => z.im), jre: J.map((z) => z.re), jim: J.map((z) => z.im), cre: 0, cim: 0, pre: 1, pim: 0 };
+    const expected = gaussianReference(A, J, sqrtDetAlongPath(A));
+    for (const method of ['trapezoid', 'double-exponential', 'gauss-kronrod'] as const) {
+      const r = integrateGaussian(q, 1e-10, 20000, method);
+      assert.equal(r.timedOut, false, method);
+      assert.ok(relErr(r, expected) < 1e-9, `${method}, n = ${n}: ${r.re} + ${r.im} i vs ${expected.re} + ${expected.im} i`);
+      assert.ok(relErr(r, expected) * Math.hypot(expected.re, expected.im) <= 3 * r.error, `${method}: the error estimate ${r.error} covers the error`);
+    }
+  }
 });
