@@ -33,6 +33,9 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env): Promise
   const sessionPool = new pg.Pool({ connectionString: config.databaseUrl, max: 5 });
   // An idle client that loses its connection (a database restart) must not crash us.
   sessionPool.on('error', (err) => logger.warn({ err: err.message }, 'session pool connection lost'));
+  // A client that is checked out when the database goes away emits 'error' on itself,
+  // outside the pool's idle handler: give every client a listener of its own.
+  sessionPool.on('connect', (client) => client.on('error', (err) => logger.warn({ err: err.message }, 'session connection lost')));
   // Without SMTP_URL, mail goes to the local fake SMTP server, which keeps it in
   // the captured_mail table for the admin's Outbox.
   const capture = env['SMTP_URL'] ? null : await startCaptureServer(sequelize, Number(env['MAIL_CAPTURE_PORT'] ?? 0));
