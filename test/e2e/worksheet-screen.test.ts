@@ -201,6 +201,8 @@ test('the worksheet page has no serious or critical accessibility violation (axe
     if (dark) {
       await page.getByTestId('theme-toggle').click();
       await page.waitForFunction(() => document.documentElement.classList.contains('sw-dark'));
+      // Let the colour transitions finish: read mid-way, a label has neither theme's contrast.
+      await page.waitForTimeout(800);
     }
     const violations = await page.evaluate(async () => {
       const axe = (window as unknown as { axe: { run(ctx: unknown, opts: unknown): Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }> } }).axe;
