@@ -25,3 +25,6 @@ export function idParam(value: unknown, what: string): number {
   if (!Number.isInteger(id) || id <= 0 || id > 2_147_483_647) throw new HttpError(404, 'not_found', `${what} was not found. Check the address.`);
   return id;
 }
+
+/** A route parameter by name (Express types them loosely under mergeParams). */
+export const routeParam = (req: { params: unknown }, name: string): string | undefined => (req.params as Record<string, string>)[name];

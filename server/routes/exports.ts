@@ -6,11 +6,10 @@ import { latexAppendix } from '../exports/latex.js';
 import { currentUser } from '../middleware/auth.js';
 import { requireWorksheetRole } from '../middleware/group-access.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
-import { idParam } from '../middleware/validate.js';
+import { idParam, routeParam } from '../middleware/validate.js';
 import { WorksheetVersion } from '../models/index.js';
 import { statementReviews } from './reviews.js';
 
-const param = (req: Request, name: string) => (req.params as Record<string, string>)[name];
 const fileSafe = (title: string) => title.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 80) || 'worksheet';
 
 /** GET /api/worksheets/:id/export?format=swk|json|latex&version=N (the current version by default). */
@@ -18,7 +17,7 @@ export function exportRoutes(pool: EvaluationPool): Router {
   const router = Router();
   router.get('/worksheets/:id/export', async (req, res) => {
     const user = currentUser(req);
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     const { worksheet } = await requireWorksheetRole(user.id, id, 'read');
     const format = String(req.query['format'] ?? 'swk');
     if (!['swk', 'json', 'latex'].includes(format)) throw new HttpError(400, 'invalid_input', 'format: Choose swk, json or latex.');

@@ -8,11 +8,10 @@ import { checkEvaluationLimits } from '../evaluation/limits.js';
 import { currentUser } from '../middleware/auth.js';
 import { requireGroupRole, requireWorksheetRole } from '../middleware/group-access.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
-import { idParam } from '../middleware/validate.js';
+import { idParam, routeParam } from '../middleware/validate.js';
 import { Worksheet, WorksheetVersion } from '../models/index.js';
 import { decodeUtf8, sniffType } from '../uploads/sniff.js';
 
-const param = (req: Request, name: string) => (req.params as Record<string, string>)[name];
 const MB = 1024 * 1024;
 
 /** multer in memory with a size limit; its errors become our 413/400 answers. */
@@ -35,7 +34,7 @@ export function fileRoutes(pool: EvaluationPool): Router {
   // sees the result before anything is stored.
   router.post('/groups/:groupId/imports', async (req, res, next) => {
     const user = currentUser(req);
-    const groupId = idParam(param(req, 'groupId'), 'This group');
+    const groupId = idParam(routeParam(req, 'groupId'), 'This group');
     await requireGroupRole(user.id, groupId, 'editWorksheets');
     singleFile(1 * MB, 'worksheet file')(req, res, async (err?: unknown) => {
       try {
@@ -66,7 +65,7 @@ export function fileRoutes(pool: EvaluationPool): Router {
   });
 
   router.get('/worksheets/:id/attachments', async (req, res) => {
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     await requireWorksheetRole(currentUser(req).id, id, 'read');
     const rows = await Worksheet.sequelize!.query<{ id: number; file_name: string; media_type: string; size: number; created_at: Date; uploader: string | null }>(
       `SELECT a.id, a.file_name, a.media_type, a.size, a.created_at, u.display_name AS uploader
@@ -80,7 +79,7 @@ export function fileRoutes(pool: EvaluationPool): Router {
 
   router.post('/worksheets/:id/attachments', async (req, res, next) => {
     const user = currentUser(req);
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     const { worksheet } = await requireWorksheetRole(user.id, id, 'editWorksheets');
     singleFile(10 * MB, 'file')(req, res, async (err?: unknown) => {
       try {
@@ -105,11 +104,11 @@ export function fileRoutes(pool: EvaluationPool): Router {
   });
 
   router.get('/worksheets/:id/attachments/:attachmentId', async (req, res) => {
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     await requireWorksheetRole(currentUser(req).id, id, 'read');
     const [row] = await Worksheet.sequelize!.query<{ file_name: string; media_type: string; content: Buffer }>(
       'SELECT file_name, media_type, content FROM attachments WHERE id = $1 AND worksheet_id = $2',
-      { bind: [idParam(param(req, 'attachmentId'), 'This file'), id], type: QueryTypes.SELECT },
+      { bind: [idParam(routeParam(req, 'attachmentId'), 'This file'), id], type: QueryTypes.SELECT },
     );
     if (!row) throw notFound('This file');
     // Downloaded, never rendered inline: an SVG could otherwise run script on our origin.
@@ -118,9 +117,9 @@ export function fileRoutes(pool: EvaluationPool): Router {
   });
 
   router.delete('/worksheets/:id/attachments/:attachmentId', async (req, res) => {
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     await requireWorksheetRole(currentUser(req).id, id, 'editWorksheets');
-    await Worksheet.sequelize!.query('DELETE FROM attachments WHERE id = $1 AND worksheet_id = $2', { bind: [idParam(param(req, 'attachmentId'), 'This file'), id] });
+    await Worksheet.sequelize!.query('DELETE FROM attachments WHERE id = $1 AND worksheet_id = $2', { bind: [idParam(routeParam(req, 'attachmentId'), 'This file'), id] });
     res.status(204).end();
   });
 

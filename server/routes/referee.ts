@@ -9,10 +9,9 @@ import { reportForVersion } from '../evaluation/stored.js';
 import { currentUser, requireUser } from '../middleware/auth.js';
 import { requireWorksheetRole } from '../middleware/group-access.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
-import { idParam, parseInput } from '../middleware/validate.js';
+import { idParam, parseInput, routeParam } from '../middleware/validate.js';
 import { WorksheetVersion } from '../models/index.js';
 
-const param = (req: Request, name: string) => (req.params as Record<string, string>)[name];
 const createBody = z.object({ version: z.number().int().min(1).optional(), days: z.number().int().min(1).max(90, 'A referee link lasts at most 90 days.') });
 
 /** Read-only links to one frozen version, for a referee without an account. */
@@ -22,7 +21,7 @@ export function refereeRoutes(config: ServerConfig, pool: EvaluationPool): Route
 
   router.post('/worksheets/:id/referee-links', requireUser, async (req, res) => {
     const user = currentUser(req);
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     const { worksheet } = await requireWorksheetRole(user.id, id, 'editWorksheets');
     const body = parseInput(createBody, req.body);
     const version = body.version ?? worksheet.version;
@@ -38,7 +37,7 @@ export function refereeRoutes(config: ServerConfig, pool: EvaluationPool): Route
   });
 
   router.get('/worksheets/:id/referee-links', requireUser, async (req, res) => {
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     await requireWorksheetRole(currentUser(req).id, id, 'editWorksheets');
     const rows = await q<{ id: number; version: number; expires_at: Date; revoked_at: Date | null; created_at: Date }>(
       'SELECT id, version, expires_at, revoked_at, created_at FROM referee_links WHERE worksheet_id = $1 ORDER BY id DESC',
@@ -49,16 +48,16 @@ export function refereeRoutes(config: ServerConfig, pool: EvaluationPool): Route
 
   router.delete('/worksheets/:id/referee-links/:linkId', requireUser, async (req, res) => {
     const user = currentUser(req);
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     const { worksheet } = await requireWorksheetRole(user.id, id, 'editWorksheets');
-    await q('UPDATE referee_links SET revoked_at = now() WHERE id = $1 AND worksheet_id = $2 AND revoked_at IS NULL RETURNING id', [idParam(param(req, 'linkId'), 'This link'), id]);
+    await q('UPDATE referee_links SET revoked_at = now() WHERE id = $1 AND worksheet_id = $2 AND revoked_at IS NULL RETURNING id', [idParam(routeParam(req, 'linkId'), 'This link'), id]);
     await recordActivity(WorksheetVersion.sequelize!, { groupId: worksheet.groupId, userId: user.id, action: 'revoked referee link', subject: worksheet.title, worksheetId: id });
     res.status(204).end();
   });
 
   // No account needed: the worksheet's one frozen version and its findings, nothing else.
   router.get('/referee/:token', async (req, res) => {
-    const token = String(param(req, 'token'));
+    const token = String(routeParam(req, 'token'));
     const [link] = token.length > 200 ? [] : await q<{ worksheet_id: number; version: number; expires_at: Date; revoked_at: Date | null }>(
       'SELECT worksheet_id, version, expires_at, revoked_at FROM referee_links WHERE token_hash = $1',
       [hashToken(token)],

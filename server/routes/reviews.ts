@@ -8,12 +8,11 @@ import { reviewReplyMail, reviewRequestedMail, reviewVerdictMail } from '../mail
 import { currentUser } from '../middleware/auth.js';
 import { requireGroupRole, requireWorksheetRole } from '../middleware/group-access.js';
 import { forbidden, HttpError, notFound } from '../middleware/http-error.js';
-import { idParam, parseInput } from '../middleware/validate.js';
+import { idParam, parseInput, routeParam } from '../middleware/validate.js';
 import { Membership, Review, ReviewComment, User, Worksheet } from '../models/index.js';
 import { reviewableStatements } from '../reviews/fingerprint.js';
 import { recordActivity } from '../activity/record.js';
 
-const param = (req: { params: unknown }, name: string) => (req.params as Record<string, string>)[name];
 
 const withPeople = [
   { model: User, as: 'reviewer' },
@@ -70,7 +69,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
 
   // Each statement of the current version with its reviews (newest first).
   router.get('/worksheets/:id/reviews', async (req, res) => {
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     const { worksheet } = await requireWorksheetRole(currentUser(req).id, id, 'read');
     res.json({ version: worksheet.version, statements: await statementReviews(worksheet.id, worksheet.source) });
   });
@@ -78,7 +77,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
   // An author asks chosen reviewers to review one statement of the current version.
   router.post('/worksheets/:id/reviews', async (req, res) => {
     const user = currentUser(req);
-    const id = idParam(param(req, 'id'), 'This worksheet');
+    const id = idParam(routeParam(req, 'id'), 'This worksheet');
     const { worksheet } = await requireWorksheetRole(user.id, id, 'editWorksheets');
     const body = parseInput(requestReviewBody, req.body);
     const statement = reviewableStatements(worksheet.source).find((s) => s.key === body.statementKey);
@@ -112,7 +111,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
   // The assigned reviewer confirms or disputes, with a comment.
   router.post('/reviews/:reviewId/verdict', async (req, res) => {
     const user = currentUser(req);
-    const review = await loadReview(idParam(param(req, 'reviewId'), 'This review'));
+    const review = await loadReview(idParam(routeParam(req, 'reviewId'), 'This review'));
     await requireGroupRole(user.id, review.worksheet!.groupId, 'review');
     if (review.reviewerId !== user.id) throw forbidden('Only the reviewer this review was asked of can give its verdict.');
     const body = parseInput(verdictBody, req.body);
@@ -143,7 +142,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
   // A reply in the thread; everyone who takes part hears of it, except its author.
   router.post('/reviews/:reviewId/comments', async (req, res) => {
     const user = currentUser(req);
-    const review = await loadReview(idParam(param(req, 'reviewId'), 'This review'));
+    const review = await loadReview(idParam(routeParam(req, 'reviewId'), 'This review'));
     const role = await requireGroupRole(user.id, review.worksheet!.groupId, 'read');
     if (!roleCan(role, 'review') && !roleCan(role, 'editWorksheets')) throw forbidden('Readers can follow review threads but not write in them.');
     const body = parseInput(commentBody, req.body);
@@ -172,7 +171,7 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
 
   // A group's reviews, newest first.
   router.get('/groups/:groupId/reviews', async (req, res) => {
-    const groupId = idParam(param(req, 'groupId'), 'This group');
+    const groupId = idParam(routeParam(req, 'groupId'), 'This group');
     await requireGroupRole(currentUser(req).id, groupId, 'read');
     const sheets = await Worksheet.findAll({ where: { groupId }, attributes: ['id'] });
     const reviews = await Review.findAll({
