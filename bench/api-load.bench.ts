@@ -40,13 +40,15 @@ const cookieOf = (c: ApiClient) => [...c.cookies].map(([k, v]) => `${k}=${v}`).j
 const admin = new ApiClient(base);
 await admin.login(DEMO.admin);
 
-function load(title: string, paths: string[]): Promise<autocannon.Result> {
+/** 50 connections as fast as the server answers, or (with `overallRate`) at a fixed offered rate in requests/s. */
+function load(title: string, paths: string[], overallRate?: number): Promise<autocannon.Result> {
   let next = 0;
   return autocannon({
     url: base,
     title,
     connections: 50,
     duration: DURATION,
+    ...(overallRate ? { overallRate } : {}),
     // Each connection is its own signed-in session (the context is per connection).
     requests: paths.map((path) => ({
       method: 'GET',
@@ -79,6 +81,10 @@ const evaluators = Array.from({ length: 20 }, async (_, n) => {
   }
 });
 const listDuringEvaluation = await load('list while evaluating', [`/api/groups/${groupId}/worksheets`]);
+// The same at an offered rate below the server's capacity: latency without the queue that
+// 50 connections firing back to back build up in front of one event loop.
+const PACED_RATE = 150;
+const listPacedDuringEvaluation = await load('list at a fixed rate while evaluating', [`/api/groups/${groupId}/worksheets`], PACED_RATE);
 evaluating = false;
 await Promise.all(evaluators);
 const metrics = (await admin.get('/api/admin/metrics')).json;
@@ -90,6 +96,7 @@ await db.drop();
 const result = {
   listAndOpen: summary(listAndOpen),
   listDuringEvaluation: { ...summary(listDuringEvaluation), evaluationsCompleted: evaluations, eventLoopDelayMs: metrics.eventLoopDelayMs },
+  [`listAt${PACED_RATE}PerSecondDuringEvaluation`]: summary(listPacedDuringEvaluation),
 };
 console.log('scenario                         req/s   p50 ms   p99 ms   errors');
 for (const [name, r] of Object.entries(result)) {

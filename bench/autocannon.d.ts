@@ -20,6 +20,8 @@ declare module 'autocannon' {
       title?: string;
       connections?: number;
       duration?: number;
+      /** Requests per second over all connections; latencies are corrected for coordinated omission. */
+      overallRate?: number;
       requests?: { method: string; path: string; setupRequest?: (req: Record<string, unknown>, context: { cookie?: string }) => Record<string, unknown> }[];
       setupClient?: (client: Client) => void;
     }

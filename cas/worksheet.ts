@@ -13,15 +13,17 @@ import { evaluateCompare } from './statements/compare.js';
 import { evaluateVerify } from './statements/verify.js';
 import { evaluateLet } from './statements/let.js';
 import { evaluateLimit } from './statements/limit.js';
-import { clearDeadline, startDeadline, TimeLimitError, timeLimitMessage } from './deadline.js';
+import { clearDeadline, startDeadline, stoppedMessage, TimeLimitError, type StopReason } from './deadline.js';
+
+export type StoppedStatement = { index: number } & StopReason;
 
 export interface EvaluateOptions {
   /** Per-statement limit in milliseconds (default 5000). */
   timeLimitMsPerStatement?: number;
   /** Called before each statement runs (statement index counts statements only, in source order). */
   onStatementStart?: (index: number, line: number) => void;
-  /** Statement indices a supervisor already stopped: reported as timed out, not run again. */
-  timedOut?: number[];
+  /** Statements a supervisor already stopped (by index): reported with the reason, not run again. */
+  stopped?: StoppedStatement[];
   /** Shown as the report's file. */
   file?: string | null;
 }
@@ -68,7 +70,7 @@ function markUnavailable(s: Statement, ctx: Context, why: string): void {
 
 export function evaluateWorksheet(source: string, options: EvaluateOptions = {}): WorksheetReport {
   const limit = options.timeLimitMsPerStatement ?? 5000;
-  const timedOut = new Set(options.timedOut ?? []);
+  const stopped = new Map((options.stopped ?? []).map((x) => [x.index, x]));
   const parsed = parseWorksheet(source);
   const ctx = newContext();
   const statements: StatementReport[] = [];
@@ -82,11 +84,13 @@ export function evaluateWorksheet(source: string, options: EvaluateOptions = {})
     }
     const s = entry.statement;
     const line = s.span.start.line;
-    if (timedOut.has(index)) {
+    const stop = stopped.get(index);
+    if (stop) {
+      const { message, because } = stoppedMessage(stop, limit);
       const r = blankReport(line, s.kind, nameOf(s));
       r.status = 'error';
-      r.error = { message: timeLimitMessage(limit), line, column: s.span.start.column };
-      markUnavailable(s, ctx, 'was stopped at the time limit');
+      r.error = { message, line, column: s.span.start.column };
+      markUnavailable(s, ctx, because);
       statements.push(r);
       return;
     }

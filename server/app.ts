@@ -104,7 +104,7 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   api.use(requireUser, reviewRoutes(config, mailer));
   api.use(requireUser, fileRoutes(evaluationPool));
   api.use(requireUser, exportRoutes(evaluationPool));
-  api.use('/admin', requireAdmin, adminRoutes());
+  api.use('/admin', requireAdmin, adminRoutes(evaluationPool));
   api.use(unknownApiRoute);
   api.use(errorHandler(logger));
   app.use('/api', api);

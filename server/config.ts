@@ -11,6 +11,8 @@ export interface ServerConfig {
   /** Per-statement evaluation time limit. */
   statementTimeLimitMs: number;
   evaluationWorkers: number;
+  /** Heap limit of each evaluation worker. */
+  evaluationWorkerMemoryMb: number;
   /** `secure` cookies only behind HTTPS. */
   secureCookies: boolean;
   logLevel: string;
@@ -32,6 +34,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     statementTimeLimitMs: Number(env['STATEMENT_TIME_LIMIT_MS'] ?? 5000),
     // One core stays with the event loop, so lists and saves stay quick while worksheets evaluate.
     evaluationWorkers: Number(env['EVALUATION_WORKERS'] ?? Math.max(1, availableParallelism() - 1)),
+    evaluationWorkerMemoryMb: Number(env['EVALUATION_WORKER_MEMORY_MB'] ?? 512),
     secureCookies: env['SECURE_COOKIES'] === '1',
     logLevel: env['LOG_LEVEL'] ?? 'info',
     loginRateLimit: Number(env['LOGIN_RATE_LIMIT'] ?? 20),

@@ -41,7 +41,11 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env): Promise
   const capture = env['SMTP_URL'] ? null : await startCaptureServer(sequelize, Number(env['MAIL_CAPTURE_PORT'] ?? 0));
   const mailer = new Mailer(sequelize, env['SMTP_URL'] ?? `smtp://127.0.0.1:${capture!.port}`, logger);
   mailer.start();
-  const evaluationPool = new EvaluationPool({ size: config.evaluationWorkers, timeLimitMsPerStatement: config.statementTimeLimitMs });
+  const evaluationPool = new EvaluationPool({
+    size: config.evaluationWorkers,
+    timeLimitMsPerStatement: config.statementTimeLimitMs,
+    maxOldGenerationSizeMb: config.evaluationWorkerMemoryMb,
+  });
   const app = createApp({ config, logger, sessionPool, evaluationPool, mailer });
 
   const server = await new Promise<Server>((resolve) => {

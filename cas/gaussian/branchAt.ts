@@ -6,6 +6,7 @@
  */
 import { carg, cmul, csqrt, ldl, luSolveDet, pivots as pivotsOf, type C, type CMat } from '../numeric/cmatrix.js';
 import { eigenvalues } from '../numeric/eigen.js';
+import { LARGE_N } from './convergenceAt.js';
 
 export interface BranchAt {
   eigenvalues: C[];
@@ -28,7 +29,30 @@ function close(a: C, b: C, tol = 1e-8): boolean {
   return Math.hypot(a.re - b.re, a.im - b.im) <= tol * Math.max(Math.hypot(a.re, a.im), Math.hypot(b.re, b.im), 1e-300);
 }
 
-export function branchAt(a: CMat): BranchAt {
+/**
+ * `realPartPositive`: Re A > 0 is already established. With many variables the
+ * eigenvalues are then skipped: every pivot lies in the right half plane (DESIGN §2
+ * item 4), so the product of their principal roots is the continuous branch by itself.
+ */
+export function branchAt(a: CMat, realPartPositive = false): BranchAt {
+  if (realPartPositive && a.n > LARGE_N) {
+    const f = ldl(a);
+    if (f) {
+      const piv = pivotsOf(f);
+      const sqrtDet = prodSqrt(piv);
+      const det = piv.reduce<C>((p, z) => cmul(p, z), { re: 1, im: 0 });
+      const principal = csqrt(det);
+      return {
+        eigenvalues: [],
+        pivots: piv,
+        sqrtDet,
+        det,
+        principalSign: principal.re * sqrtDet.re + principal.im * sqrtDet.im >= 0 ? 1 : -1,
+        argumentSum: piv.reduce((s, z) => s + carg(z), 0),
+        pivotsAgree: null,
+      };
+    }
+  }
   const ev = eigenvalues(a);
   const fact = ldl(a);
   const piv = fact ? pivotsOf(fact) : null;

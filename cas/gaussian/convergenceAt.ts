@@ -1,9 +1,13 @@
 /** Convergence of a Gaussian integral at one numeric point, from Re A and Im A. */
 import type { CMat } from '../numeric/cmatrix.js';
 import { symEig } from '../numeric/symeig.js';
+import { smallestCholeskyPivot } from '../numeric/cholesky.js';
+
+/** Above this many variables, Re A > 0 is decided by Cholesky pivots instead of eigenvalues. */
+export const LARGE_N = 24;
 
 export type PointVerdict =
-  | { kind: 'absolute'; realEigenvalues: number[] }
+  | { kind: 'absolute'; realEigenvalues: number[]; smallestCholeskyPivot?: number }
   | { kind: 'oscillatory'; realEigenvalues: number[]; kernelDim: number }
   | { kind: 'divergent'; realEigenvalues: number[]; direction: number[]; grows: boolean };
 
@@ -28,6 +32,13 @@ function tidyDirection(v: number[]): number[] {
 export function convergenceAt(a: CMat): PointVerdict {
   const n = a.n;
   const tol = 1e-10 * Math.max(scaleOf(a), 1e-300);
+  if (n > LARGE_N) {
+    const reA = new Float64Array(n * n);
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) reA[i * n + j] = (a.re[i * n + j]! + a.re[j * n + i]!) / 2;
+    const pivot = smallestCholeskyPivot(reA, n, tol);
+    // Not positive definite: the eigenvectors below name the direction that fails.
+    if (pivot !== null) return { kind: 'absolute', realEigenvalues: [], smallestCholeskyPivot: pivot };
+  }
   const re = symEig(part(a, 're'));
   const lo = re.values[0]!;
   if (lo > tol) return { kind: 'absolute', realEigenvalues: re.values };

@@ -10,7 +10,11 @@ export const fmt = (x: number, digits = 6) => Number(x.toPrecision(digits)).toSt
 export function polar(z: C): PolarValue { return { re: z.re, im: z.im, arg: Math.atan2(z.im, z.re) }; }
 
 /** An angle as a multiple of pi, e.g. "0.4375*pi". */
-export const piMultiple = (a: number) => `${fmt(a / Math.PI, 4)}*pi`;
+/** An angle as a multiple of pi: 0, pi, -pi, 0.25*pi. */
+export function piMultiple(a: number): string {
+  const m = fmt(a / Math.PI, 4);
+  return m === '0' || m === '-0' ? '0' : m === '1' ? 'pi' : m === '-1' ? '-pi' : `${m}*pi`;
+}
 
 export function matrixLatex(m: readonly (readonly Expr[])[]): string {
   return `\\begin{pmatrix} ${m.map((row) => row.map((e) => toLatex(tidy(e))).join(' & ')).join(' \\\\ ')} \\end{pmatrix}`;

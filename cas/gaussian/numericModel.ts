@@ -40,6 +40,6 @@ export function gaussianValue(f: NumericForm, sqrtDet: C): C {
 export function analyzeAt(f: NumericForm): PointAnalysis {
   const verdict = convergenceAt(f.A);
   if (verdict.kind === 'divergent') return { verdict, branch: null, value: null };
-  const branch = branchAt(f.A);
+  const branch = branchAt(f.A, verdict.kind === 'absolute');
   return { verdict, branch, value: gaussianValue(f, branch.sqrtDet) };
 }

@@ -41,6 +41,13 @@ function minReEig(a: CMat): number {
 const near = (a: C, b: C) => Math.hypot(a.re - b.re, a.im - b.im);
 const lerp = (a: Complex[], b: Complex[], s: number) => a.map((z, k) => z.add(b[k]!.sub(z).mul(s)));
 
+/** The step size shrank to nothing: det A vanishes on the path itself, so no branch can be followed through. */
+export class PathThroughBranchPoint extends Error {
+  constructor(readonly at: Complex[]) {
+    super('The path passes through a branch point (det A = 0).');
+  }
+}
+
 export function followPath(Aof: (t: Complex[]) => CMat, nodes: Complex[][], opts: FollowOptions = {}): FollowResult {
   const n = Aof(nodes[0]!).n;
   const eigenRoute = n <= 8 && !opts.eigenEvery;
@@ -92,7 +99,7 @@ export function followPath(Aof: (t: Complex[]) => CMat, nodes: Complex[][], opts
       if (!ok) {
         rejected++;
         h /= 2;
-        if (h < 1e-12) throw new Error(`The path passes through a branch point (det A = 0) near ${t.map((z) => z.toString()).join(', ')}; move the path off it.`);
+        if (h < 1e-12) throw new PathThroughBranchPoint(t);
         continue;
       }
       phase += jump;

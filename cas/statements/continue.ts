@@ -20,7 +20,7 @@ import { samplePoints, type Point } from '../domains/sample.js';
 import { numericForm, gaussianValue } from '../gaussian/numericModel.js';
 import { complexText, polar } from '../gaussian/describe.js';
 import { csqrt, type C, type CMat } from '../numeric/cmatrix.js';
-import { followPath, commonRotation, type PathSample } from '../numeric/continuation.js';
+import { followPath, commonRotation, PathThroughBranchPoint, type PathSample } from '../numeric/continuation.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { bindPoint, PRINCIPAL_CUT, resultNamed } from './shared.js';
 
@@ -43,7 +43,14 @@ export function evaluateContinue(s: Extract<Statement, { kind: 'continue' }>, ct
   const nodes = s.points.map((pt) => pt.map((e) => evaluate(e, base)));
   const Aof = (t: Complex[]): CMat => { const p = new Map(base); moving.forEach((m, k) => p.set(m, t[k]!)); return numericForm(g.form, g.prefactor, p).A; };
   const pointOf = (t: Complex[]): Point => { const p = new Map(base); moving.forEach((m, k) => p.set(m, t[k]!)); return p; };
-  const run = followPath(Aof, nodes);
+  let run: ReturnType<typeof followPath>;
+  try {
+    run = followPath(Aof, nodes);
+  } catch (e) {
+    if (!(e instanceof PathThroughBranchPoint)) throw e;
+    const where = moving.map((m, k) => `${m} = ${complexText(e.at[k]!, 6)}`).join(', ');
+    throw new StatementFailure(`The path passes through a branch point (det A = 0) near ${where}, where the square root has no continuous choice. Move the path off it: go around the point on the side you mean.`, line, s.span.start.column);
+  }
   const samples = run.samples;
   const end = samples[samples.length - 1]!;
   const endPoint = pointOf(end.t);

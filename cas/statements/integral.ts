@@ -189,7 +189,14 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
         ? 'Divergent: Re A has a negative eigenvalue, so the integrand grows along its eigenvector'
         : 'Divergent: the exponent has no decaying part along the direction given, so the integrand does not decay',
     }[convergence];
-    report.steps.push({
+    const cholesky = first.verdict.kind === 'absolute' ? first.verdict.smallestCholeskyPivot : undefined;
+    if (cholesky !== undefined) {
+      report.steps.push({
+        kind: 'convergence',
+        text: `Absolutely convergent: Re A is positive definite, since its Cholesky factorization succeeds with every pivot positive (smallest ${fmt(cholesky)}; decided numerically in double precision; with ${n} variables the eigenvalues are not computed).`,
+        latex: '\\operatorname{Re} A \\succ 0',
+      });
+    } else report.steps.push({
       kind: 'convergence',
       text: `${words} (eigenvalues of Re A: ${ev.map((x) => fmt(x)).join(', ')}; decided numerically in double precision)${first.verdict.kind === 'divergent' ? `; direction x = (${first.verdict.direction.join(', ')})` : ''}.`,
       latex: `\\operatorname{spec}(\\operatorname{Re} A) = \\{${ev.map((x) => fmt(x)).join(',\\ ')}\\}`,
@@ -242,7 +249,14 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
   const eigText = bd.eigenvalues.map((z) => `${complexText(z, 5)} (arg ${piMultiple(Math.atan2(z.im, z.re))})`).join(', ');
   const provedPrincipal = n === 1 || (n === 2 && convergence === 'absolute' && proofKind === 'proved');
   let reason: string;
-  if (!symbolic) {
+  const byPivotsOnly = bd.eigenvalues.length === 0;
+  if (!symbolic && byPivotsOnly) {
+    // Large n with Re A > 0: the pivots alone decide (see gaussian/branchAt.ts).
+    const where = b0.principalSign === 1
+      ? 'inside (-pi, pi], so the principal sqrt(det A) is that product'
+      : 'outside (-pi, pi], so the principal sqrt(det A) has the wrong sign: det(A)^(-1/2) = -1/sqrt(det A)';
+    reason = `Re A > 0, so every L D L^T pivot of A has positive real part and det(A)^(1/2) is the product of the pivots' principal roots; the pivots' arguments sum to ${piMultiple(b0.argumentSum)}, ${where}.`;
+  } else if (!symbolic) {
     reason = b0.principalSign === 1
       ? `The eigenvalues of A are ${eigText}; their arguments sum to ${piMultiple(b0.argumentSum)}, inside (-pi, pi], so the principal sqrt(det A) is the product of the principal roots.`
       : `The eigenvalues of A are ${eigText}; their arguments sum to ${piMultiple(b0.argumentSum)}, outside (-pi, pi], so the principal sqrt(det A) has the wrong sign: det(A)^(-1/2) = -1/sqrt(det A).`;
@@ -260,8 +274,10 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
   report.branch = { principalSqrtDetCorrect: plus === signs.length, reason };
   report.steps.push({
     kind: 'branch',
-    text: `${reason} The L D L^T pivots give the same root${pivotsDisagree ? ` except at ${pivotsDisagree} point(s), where the eigenvalues were used` : ''}.`,
-    latex: `\\det(A)^{1/2} = \\prod_k \\lambda_k^{1/2},\\quad \\sum_k \\arg \\lambda_k = ${fmt(bd.argumentSum / Math.PI, 4)}\\,\\pi`,
+    text: byPivotsOnly ? reason : `${reason} The L D L^T pivots give the same root${pivotsDisagree ? ` except at ${pivotsDisagree} point(s), where the eigenvalues were used` : ''}.`,
+    latex: byPivotsOnly
+      ? `\\det(A)^{1/2} = \\prod_k d_k^{1/2},\\quad \\sum_k \\arg d_k = ${fmt(bd.argumentSum / Math.PI, 4)}\\,\\pi`
+      : `\\det(A)^{1/2} = \\prod_k \\lambda_k^{1/2},\\quad \\sum_k \\arg \\lambda_k = ${fmt(bd.argumentSum / Math.PI, 4)}\\,\\pi`,
     eigenvalues: bd.eigenvalues.map(polar),
     ...(bd.pivots ? { pivots: bd.pivots.map(polar) } : {}),
     argumentSum: bd.argumentSum,

@@ -76,7 +76,7 @@ export function evaluateLet(s: Extract<Statement, { kind: 'let' }>, ctx: Context
     const nearCut = argsOf.filter((a) => Math.abs(Math.abs(a) - Math.PI) < 0.1).length;
     report.steps.push({
       kind: 'branch',
-      text: `${c.fn}(${toText(c.args[0]!)}) is taken on the principal branch (cut on the negative real axis; ${c.fn === 'log' ? 'imaginary part in (-pi, pi]' : 'real part >= 0'}): the argument of ${toText(c.args[0]!)} lies between ${piMultiple(lo)} and ${piMultiple(hi)} at ${args.length} sampled points${nearCut ? `; ${nearCut} of them lie within 0.1 rad of the cut, where a continuous branch could differ` : ', away from the cut'}.`,
+      text: `${c.fn}(${toText(c.args[0]!)}) is taken on the principal branch (cut on the negative real axis; ${c.fn === 'log' ? 'imaginary part in (-pi, pi]' : 'real part >= 0'}): the argument of ${toText(c.args[0]!)} ${piMultiple(lo) === piMultiple(hi) ? `is ${piMultiple(lo)}` : `lies between ${piMultiple(lo)} and ${piMultiple(hi)}`} at ${args.length} sampled points${nearCut ? `; ${nearCut} of them lie within 0.1 rad of the cut, where a continuous branch could differ` : ', away from the cut'}.`,
       latex: `\\${c.fn === 'log' ? 'log' : 'sqrt'}\\ \\text{principal},\\ \\arg \\in [${(lo / Math.PI).toFixed(3)}\\pi, ${(hi / Math.PI).toFixed(3)}\\pi]`,
       samples: { count: args.length, agreeing: args.length - nearCut },
     });

@@ -17,6 +17,7 @@ import { limitOf, rewriteChecked } from '../algebra/adapter.js';
 import { describePoint, samplePoints, type Point } from '../domains/sample.js';
 import { complexText } from '../gaussian/describe.js';
 import { complexExpr } from '../expr/numberExpr.js';
+import { recognizeConstant } from '../expr/recognize.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { resultNamed } from './shared.js';
 
@@ -108,13 +109,33 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
       const l = limitOf(div(r.expr, power), pn, 'inf');
       if (l && pts.every((p) => { const c = exprAt(l, p); const q = new Map(p); q.set(pn, new Complex(1e7, 0)); const w = r.valueAt(q); return c && w && rd({ re: w.re / 1e7 ** alpha, im: w.im / 1e7 ** alpha }, c) < 1e-4 * (1 + 0); })) {
         C = tidy(rewriteChecked('simplify', l, pts).expr);
+        // The algebra package sometimes returns a pure number as a long fraction
+        // approximating, e.g., sqrt(2*pi): write it in its simple form when that matches.
+        const cValue = freeNames(C).size === 0 ? exprAt(C, p0) : null;
+        const simple = cValue && recognizeConstant(cValue, 1e-12);
+        if (simple) C = simple;
         checkedWords = `the constant from the algebra package's limit, checked numerically at ${pn} = 1e7 for ${pts.length} value${pts.length > 1 ? 's' : ''} of the other parameters`;
       }
     }
     if (!C) {
       const v = vals[2]!;
-      C = complexExpr({ re: v.re / x2 ** alpha, im: v.im / x2 ** alpha });
-      checkedWords = `the constant read off at ${pn} = 1e6 (checked numerically only)${others.length ? ` at ${describePoint(p0)}` : ''}`;
+      const readOff = { re: v.re / x2 ** alpha, im: v.im / x2 ** alpha };
+      // A read-off constant that is a simple multiple of powers of pi and sqrt(2) is
+      // written as such once it holds at a larger value and for every sampled point.
+      const guess = recognizeConstant(readOff, 1e-7);
+      const guessValue = guess && exprAt(guess, p0);
+      const holds = guessValue && pts.every((p) => {
+        const q = new Map(p); q.set(pn, new Complex(sign * 1e7, 0));
+        const w = r.valueAt(q);
+        return w && rd({ re: w.re / 1e7 ** alpha, im: w.im / 1e7 ** alpha }, guessValue) < 1e-7;
+      });
+      if (guess && holds) {
+        C = guess;
+        checkedWords = `the constant recognised as ${toText(guess)} from its value at ${pn} = 1e6 and confirmed at ${pn} = 1e7 for ${pts.length} value${pts.length > 1 ? 's' : ''} of the other parameters (checked, not proved)`;
+      } else {
+        C = complexExpr(readOff);
+        checkedWords = `the constant read off at ${pn} = 1e6 (checked numerically only)${others.length ? ` at ${describePoint(p0)}` : ''}`;
+      }
     }
     lead = tidy(mul(C, power));
     leadText = toText(lead);

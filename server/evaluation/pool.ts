@@ -1,4 +1,5 @@
 import { Worker } from 'node:worker_threads';
+import type { StopReason, StoppedStatement } from '../../cas/index.js';
 import type { WorksheetReport } from '../../shared/evaluation.js';
 import type { EvaluationTask, WorkerMessage } from './worker.js';
 
@@ -6,7 +7,8 @@ const WORKER_URL = new URL('./worker-entry.mjs', import.meta.url);
 
 interface Job {
   source: string;
-  timedOut: number[];
+  /** Statements that already cost a worker; the next run reports them instead of running them. */
+  stopped: StoppedStatement[];
   resolve: (report: WorksheetReport) => void;
   reject: (err: Error) => void;
   onProgress?: (progress: { index: number; line: number }) => void;
@@ -30,15 +32,16 @@ export class EvaluationCancelled extends Error {
 export interface PoolOptions {
   size: number;
   timeLimitMsPerStatement: number;
-  /** Heap limit per worker; a worksheet that needs more ends with an error, not a dead server. */
+  /** Heap limit per worker in MB (default 512); a statement that needs more gets an error, the server stays up. */
   maxOldGenerationSizeMb?: number;
 }
 
 /**
  * Worksheet evaluation off the event loop. Each worker runs one worksheet at a time
- * and says when each statement starts; a statement that runs past the limit gets its
- * worker terminated and replaced, and the worksheet is run again with that statement
- * marked as timed out — so the other statements keep their results.
+ * and says when each statement starts. A statement that runs past the time limit,
+ * exceeds the heap limit, or kills its worker for any other reason costs that worker:
+ * it is replaced, and the worksheet is run again with that statement marked with the
+ * reason — so the other statements keep their results and the server stays up.
  */
 export class EvaluationPool {
   private idle: Worker[] = [];
@@ -48,11 +51,22 @@ export class EvaluationPool {
 
   constructor(private readonly options: PoolOptions) {}
 
+  get size(): number {
+    return this.options.size;
+  }
+
+  private get memoryLimitMb(): number {
+    return this.options.maxOldGenerationSizeMb ?? 512;
+  }
+
+  /** Workers started so far, the replacements included (for tests and metrics). */
+  spawned = 0;
+
   evaluate(source: string, options: EvaluateCallOptions = {}): Promise<WorksheetReport> {
     if (this.closed) return Promise.reject(new Error('The evaluation pool is shut down.'));
     if (options.signal?.aborted) return Promise.reject(new EvaluationCancelled());
     return new Promise((resolve, reject) => {
-      const job: Job = { source, timedOut: [], resolve, reject, onProgress: options.onProgress, signal: options.signal };
+      const job: Job = { source, stopped: [], resolve, reject, onProgress: options.onProgress, signal: options.signal };
       options.signal?.addEventListener(
         'abort',
         () => {
@@ -78,9 +92,10 @@ export class EvaluationPool {
 
   private spawn(): Worker {
     const worker = new Worker(WORKER_URL, {
-      resourceLimits: { maxOldGenerationSizeMb: this.options.maxOldGenerationSizeMb ?? 512 },
+      resourceLimits: { maxOldGenerationSizeMb: this.memoryLimitMb },
     });
     worker.unref();
+    this.spawned += 1;
     this.workers.add(worker);
     return worker;
   }
@@ -101,7 +116,7 @@ export class EvaluationPool {
     // reports a cleaner error when it can.
     const arm = () => {
       clearTimeout(timer);
-      timer = setTimeout(() => retire(`time limit`), limit + 500);
+      timer = setTimeout(() => retire({ reason: 'time' }), limit + 500);
     };
     const cleanup = () => {
       settled = true;
@@ -110,15 +125,16 @@ export class EvaluationPool {
       worker.off('error', onError);
       worker.off('exit', onExit);
     };
-    const retire = (why: string) => {
+    const retire = (stop: StopReason) => {
       if (settled || job.signal?.aborted) return;
       cleanup();
       this.workers.delete(worker);
       void worker.terminate();
-      if (current < 0 || job.timedOut.includes(current)) {
+      if (current < 0 || job.stopped.some((x) => x.index === current)) {
+        const why = stop.reason === 'time' ? 'time limit' : stop.reason === 'memory' ? `memory limit of ${stop.limitMb} MB` : stop.detail;
         job.reject(new Error(`The evaluation worker stopped (${why}) before any statement ran.`));
       } else {
-        job.timedOut = [...job.timedOut, current];
+        job.stopped = [...job.stopped, { index: current, ...stop }];
         this.queue.unshift(job);
       }
       this.dispatch();
@@ -143,13 +159,15 @@ export class EvaluationPool {
         this.dispatch();
       }
     };
-    const onError = (err: Error) => retire(err.message);
-    const onExit = () => retire('the worker exited');
+    // Node reports a worker that hit its heap limit by this code on the 'error' event.
+    const onError = (err: Error & { code?: string }) =>
+      retire(err.code === 'ERR_WORKER_OUT_OF_MEMORY' ? { reason: 'memory', limitMb: this.memoryLimitMb } : { reason: 'crash', detail: err.message });
+    const onExit = (code: number) => retire({ reason: 'crash', detail: `the worker exited with code ${code}` });
     worker.on('message', onMessage);
     worker.on('error', onError);
     worker.on('exit', onExit);
     // Before the first statement starts, the worker may still be loading the core.
-    timer = setTimeout(() => retire('it did not start within 30 s'), Math.max(limit, 30_000));
-    worker.postMessage({ source: job.source, timeLimitMsPerStatement: limit, timedOut: job.timedOut } satisfies EvaluationTask);
+    timer = setTimeout(() => retire({ reason: 'crash', detail: 'it did not start within 30 s' }), Math.max(limit, 30_000));
+    worker.postMessage({ source: job.source, timeLimitMsPerStatement: limit, stopped: job.stopped } satisfies EvaluationTask);
   }
 }

@@ -1,12 +1,13 @@
 // Runs inside a worker thread: evaluates one worksheet with the computation core and
 // reports each statement's start, so the pool can stop a statement that runs too long.
 import { parentPort } from 'node:worker_threads';
-import { evaluateWorksheet } from '../../cas/index.js';
+import { evaluateWorksheet, type StoppedStatement } from '../../cas/index.js';
+import { lowerThisThreadPriority } from './thread-priority.js';
 
 export interface EvaluationTask {
   source: string;
   timeLimitMsPerStatement: number;
-  timedOut: number[];
+  stopped: StoppedStatement[];
 }
 
 export type WorkerMessage =
@@ -14,11 +15,13 @@ export type WorkerMessage =
   | { type: 'done'; report: unknown }
   | { type: 'failed'; message: string };
 
+lowerThisThreadPriority(10);
+
 parentPort!.on('message', (task: EvaluationTask) => {
   try {
     const report = evaluateWorksheet(task.source, {
       timeLimitMsPerStatement: task.timeLimitMsPerStatement,
-      timedOut: task.timedOut,
+      stopped: task.stopped,
       onStatementStart: (index, line) => parentPort!.postMessage({ type: 'start', index, line } satisfies WorkerMessage),
     });
     parentPort!.postMessage({ type: 'done', report } satisfies WorkerMessage);

@@ -1,4 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { isDatabaseUnavailable } from '../db/unavailable.js';
 import type { Logger } from '../logger.js';
 import { HttpError } from './http-error.js';
 
@@ -34,10 +35,7 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       res.status(status).json({ error: { code: 'bad_request', message: 'The request could not be understood. Check it and send it again.' } });
       return;
     }
-    const unavailable = /ECONNREFUSED|Connection terminated|ConnectionRefused|SequelizeConnection|the database system is (starting|shutting)/i.test(
-      `${err?.name} ${err?.message} ${err?.parent?.code ?? ''}`,
-    );
-    if (unavailable) {
+    if (isDatabaseUnavailable(err)) {
       logger.warn({ err: err?.message }, 'database unavailable');
       res.status(503).json({ error: { code: 'database_unavailable', message: 'The database is not reachable just now. Wait a moment and try again; nothing was saved.' } });
       return;

@@ -1,3 +1,4 @@
+import type { FindOptions } from 'sequelize';
 import { roleCan, type Ability, type GroupRole } from '../../shared/api.js';
 import { Membership, Worksheet } from '../models/index.js';
 import { forbidden, notFound } from './http-error.js';
@@ -13,9 +14,9 @@ export async function requireGroupRole(userId: number, groupId: number, ability:
   return membership.role;
 }
 
-/** Loads a worksheet and checks the caller's role in its group. */
-export async function requireWorksheetRole(userId: number, worksheetId: number, ability: Ability) {
-  const worksheet = await Worksheet.findByPk(worksheetId);
+/** Loads a worksheet (with `options`, e.g. an include) and checks the caller's role in its group. */
+export async function requireWorksheetRole(userId: number, worksheetId: number, ability: Ability, options: FindOptions = {}) {
+  const worksheet = await Worksheet.findByPk(worksheetId, options);
   if (!worksheet) throw notFound('This worksheet');
   const role = await requireGroupRole(userId, worksheet.groupId, ability).catch((err) => {
     if (err.status === 404) throw notFound('This worksheet');

@@ -6,13 +6,14 @@ import { HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, parseInput } from '../middleware/validate.js';
 import { QueryTypes } from 'sequelize';
 import type { MailDeliveryDto, OutboxMessageDto } from '../../shared/collaboration.js';
+import type { EvaluationPool } from '../evaluation/pool.js';
 import { User } from '../models/index.js';
 
 /** Site administration; mounted behind requireAdmin. */
 const loopDelay = monitorEventLoopDelay({ resolution: 10 });
 loopDelay.enable();
 
-export function adminRoutes(): Router {
+export function adminRoutes(evaluationPool: EvaluationPool): Router {
   const router = Router();
 
   // Event-loop delay since the last reset: evaluation must not block the loop.
@@ -21,6 +22,8 @@ export function adminRoutes(): Router {
     res.json({
       eventLoopDelayMs: { p50: ms(loopDelay.percentile(50)), p99: ms(loopDelay.percentile(99)), max: ms(loopDelay.max) },
       memoryMb: Math.round(process.memoryUsage().rss / 1048576),
+      // Started beyond the pool's size means workers were replaced (time or memory limit, or a crash).
+      evaluationWorkers: { size: evaluationPool.size, started: evaluationPool.spawned },
     });
     if (req.query['reset'] === '1') loopDelay.reset();
   });

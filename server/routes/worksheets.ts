@@ -44,6 +44,8 @@ export function groupWorksheetRoutes(): Router {
     };
     const { rows, count } = await Worksheet.findAndCountAll({
       where,
+      // A summary needs no source text, and a source may be 200 kB.
+      attributes: { exclude: ['source'] },
       ...withAuthor,
       order: [
         [query.sort, query.direction.toUpperCase()],
@@ -106,8 +108,7 @@ export function worksheetRoutes(pool: EvaluationPool): Router {
 
   router.get('/:id', async (req, res) => {
     const id = idParam((req.params as Record<string, string>)['id'], 'This worksheet');
-    const { role } = await requireWorksheetRole(currentUser(req).id, id, 'read');
-    const worksheet = (await Worksheet.findByPk(id, withAuthor))!;
+    const { worksheet, role } = await requireWorksheetRole(currentUser(req).id, id, 'read', withAuthor);
     res.json({ worksheet: detail(worksheet, role) });
   });
 

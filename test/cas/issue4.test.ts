@@ -123,6 +123,15 @@ test('continuation of [[k, i lam], [i lam, k]] from 0 to 2ik, right and left of 
   }
 });
 
+test('a path straight through the branch point lam = ik is refused with the place named, as a statement error, not an internal one — det A = k^2 + lam^2 vanishes there (worked out by hand)', () => {
+  const s = run(`${MODES}\ncontinue Z : lam along 0 -> 2*i at k = 1`).statements[3]!;
+  assert.equal(s.status, 'error');
+  assert.match(s.error!.message, /^The path passes through a branch point \(det A = 0\) near lam = /);
+  assert.match(s.error!.message, /Move the path off it/);
+  assert.doesNotMatch(s.error!.message, /Internal error/);
+  assert.equal(s.error!.line, 4);
+});
+
 test('once around the simple zero ik flips the sign, twice does not — facts of the trade (REFERENCES); mathjs-eigenvalue continuation', () => {
   const loop = [{ re: 0, im: 0 }, { re: 1, im: 1 }, { re: 0, im: 2 }, { re: -1, im: 1 }, { re: 0, im: 0 }];
   const once = run(`${MODES}\ncontinue Z : lam along 0 -> 1 + i -> 2*i -> -1 + i -> 0 at k = 1`).statements[3]!;
@@ -191,6 +200,7 @@ test('let and limit: lam -> 0 limit is the square of the one-variable result; k 
     const lead = math.evaluate(limInf.result!.text, { k }) as number;
     assert.ok(Math.abs(lead - 2 * Math.PI / k) < 1e-9 * lead, limInf.result!.text);
   }
+  assert.equal(limInf.result!.text, '2*pi/k', 'the constant is written as 2*pi, not as a decimal');
   const c = [0.3, 1, 9].map((k) => (math.evaluate(F.result!.text, { k }) as number) - Math.log(k) / 2);
   assert.ok(Math.abs(c[0]! - c[1]!) < 1e-12 && Math.abs(c[1]! - c[2]!) < 1e-12, `constant ${c}`);
   assert.ok(Math.abs(c[0]! + Math.log(2 * Math.PI) / 2) < 1e-12);

@@ -51,6 +51,31 @@ for (let n = 1; n <= 5; n++) {
   });
 }
 
+test('n = 30 (above the size where Re A > 0 is decided by Cholesky and the branch by pivots alone): value agrees with sqrt(det) continued from the identity (mathjs determinants)', () => {
+  fc.assert(fc.property(positiveRealPart(30, 3), ({ A, J }) => {
+    const s = statement(gaussianLine('Z', A, J), 'Z');
+    assert.equal(s.status, 'ok', JSON.stringify(s.error));
+    assert.equal(s.convergence, 'absolute');
+    assert.match(s.steps.find((x) => x.kind === 'convergence')!.text, /Cholesky/);
+    const expected = gaussianReference(A, J, sqrtDetAlongPath(A));
+    const e = relErr(s.result!.value!, expected);
+    assert.ok(e < 1e-9, `relative error ${e}`);
+  }), { numRuns: 3, seed: 3030 });
+});
+
+test('n = 30 with a large imaginary diagonal, so that the pivots\' arguments sum past pi: the principal root is wrong for some and the value still agrees with mathjs', () => {
+  const signs: boolean[] = [];
+  fc.assert(fc.property(positiveRealPart(30, 0.5), real(2, 12), ({ A, J }, s) => {
+    const shifted = A.map((row, i) => row.map((z, j) => (i === j ? { re: z.re, im: z.im + s } : z)));
+    const st = statement(gaussianLine('Z', shifted, J), 'Z');
+    assert.equal(st.status, 'ok', JSON.stringify(st.error));
+    signs.push(st.branch!.principalSqrtDetCorrect);
+    const e = relErr(st.result!.value!, gaussianReference(shifted, J, sqrtDetAlongPath(shifted)));
+    assert.ok(e < 1e-9, `relative error ${e}`);
+  }), { numRuns: 6, seed: 3131 });
+  assert.ok(signs.includes(false) && signs.includes(true), `both sheets met: ${signs}`);
+});
+
 test('n <= 2: value agrees with mpmath quadrature (separate python3 process)', () => {
   const cases: { A: CMatrix; J: Cx[] }[] = [
     ...fc.sample(positiveRealPart(1, 1.5), { numRuns: 8, seed: 11 }),

@@ -71,14 +71,24 @@ test('a statement that depends on a failed one says which result it depends on',
   assert.match(r.statements[1]!.error!.message, /depends on Z \(line 1\), which ended with an error/);
 });
 
-test('timedOut statements are not run and report the time limit; dependants name them', () => {
+test('statements stopped at the time limit are not run; dependants name them', () => {
   const seen: number[] = [];
   const r = evaluateWorksheet(`${CANONICAL}\n# c\n\nexpect Z = 1`, {
-    timedOut: [2], timeLimitMsPerStatement: 3000, onStatementStart: (i) => seen.push(i),
+    stopped: [{ index: 2, reason: 'time' }], timeLimitMsPerStatement: 3000, onStatementStart: (i) => seen.push(i),
   });
   assert.deepEqual(seen, [0, 1, 3, 4]);
   assert.equal(r.statements[2]!.error!.message, 'This statement ran longer than the time limit of 3 s and was stopped. Simplify it or raise the limit.');
   assert.match(r.statements[3]!.error!.message, /depends on Z \(line 3\), which was stopped at the time limit/);
+});
+
+test('statements stopped at the memory limit or by a failed worker say so, not "time limit"', () => {
+  const memory = evaluateWorksheet(`${CANONICAL}\nexpect Z = 1`, { stopped: [{ index: 2, reason: 'memory', limitMb: 512 }] });
+  assert.match(memory.statements[2]!.error!.message, /more memory than the evaluation limit of 512 MB/);
+  assert.match(memory.statements[3]!.error!.message, /which was stopped at the memory limit/);
+  const crash = evaluateWorksheet(`${CANONICAL}\nexpect Z = 1`, { stopped: [{ index: 2, reason: 'crash', detail: 'the worker exited' }] });
+  assert.match(crash.statements[2]!.error!.message, /stopped unexpectedly while running this statement \(the worker exited\)/);
+  assert.doesNotMatch(crash.statements[2]!.error!.message, /time limit/);
+  assert.match(crash.statements[3]!.error!.message, /which could not be evaluated/);
 });
 
 test('the cooperative deadline stops a long statement with the time-limit message', () => {
