@@ -96,7 +96,7 @@ await db.drop();
 const result = {
   listAndOpen: summary(listAndOpen),
   listDuringEvaluation: { ...summary(listDuringEvaluation), evaluationsCompleted: evaluations, eventLoopDelayMs: metrics.eventLoopDelayMs },
-  [`listAt${PACED_RATE}PerSecondDuringEvaluation`]: summary(listPacedDuringEvaluation),
+  [`listAt${PACED_RATE}PerSecWhileEvaluating`]: summary(listPacedDuringEvaluation),
 };
 console.log('scenario                         req/s   p50 ms   p99 ms   errors');
 for (const [name, r] of Object.entries(result)) {
