@@ -35,40 +35,22 @@ function close(a: C, b: C, tol = 1e-8): boolean {
  * item 4), so the product of their principal roots is the continuous branch by itself.
  */
 export function branchAt(a: CMat, realPartPositive = false): BranchAt {
-  if (realPartPositive && a.n > LARGE_N) {
-    const f = ldl(a);
-    if (f) {
-      const piv = pivotsOf(f);
-      const sqrtDet = prodSqrt(piv);
-      const det = piv.reduce<C>((p, z) => cmul(p, z), { re: 1, im: 0 });
-      const principal = csqrt(det);
-      return {
-        eigenvalues: [],
-        pivots: piv,
-        sqrtDet,
-        det,
-        principalSign: principal.re * sqrtDet.re + principal.im * sqrtDet.im >= 0 ? 1 : -1,
-        argumentSum: piv.reduce((s, z) => s + carg(z), 0),
-        pivotsAgree: null,
-      };
-    }
-  }
-  const ev = eigenvalues(a);
   const fact = ldl(a);
   const piv = fact ? pivotsOf(fact) : null;
-  const fromEig = prodSqrt(ev);
   const fromPiv = piv ? prodSqrt(piv) : null;
+  const pivotsOnly = realPartPositive && a.n > LARGE_N && piv !== null;
+  const ev = pivotsOnly ? [] : eigenvalues(a);
+  const sqrtDet = pivotsOnly ? fromPiv! : prodSqrt(ev);
   const det = piv ? piv.reduce<C>((p, z) => cmul(p, z), { re: 1, im: 0 }) : (luSolveDet(a, Array.from({ length: a.n }, () => ({ re: 0, im: 0 })))?.det ?? { re: 0, im: 0 });
   const principal = csqrt(det);
-  const principalSign: 1 | -1 = principal.re * fromEig.re + principal.im * fromEig.im >= 0 ? 1 : -1;
   return {
     eigenvalues: ev,
     pivots: piv,
-    sqrtDet: fromEig,
+    sqrtDet,
     det,
-    principalSign,
-    argumentSum: ev.reduce((s, z) => s + carg(z), 0),
-    pivotsAgree: fromPiv ? close(fromPiv, fromEig) : null,
+    principalSign: principal.re * sqrtDet.re + principal.im * sqrtDet.im >= 0 ? 1 : -1,
+    argumentSum: (pivotsOnly ? piv! : ev).reduce((s, z) => s + carg(z), 0),
+    pivotsAgree: pivotsOnly || !fromPiv ? null : close(fromPiv, sqrtDet),
   };
 }
 
