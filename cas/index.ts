@@ -4,3 +4,5 @@ export { parseWorksheet, parseExpression, type ParsedWorksheet, type ParsedLine,
 export { timeLimitMessage, type StopReason } from './deadline.js';
 export type { Statement, Expr, Span, Pos } from './lang/ast.js';
 export type { WorksheetReport, StatementReport, Step, StepKind, Convergence, Proof, ResultRecord, BranchRecord } from '../shared/evaluation.js';
+export { statementNames, type StatementNames } from './lang/statement-names.js';
+export { ENGINE_VERSION } from './version.js';

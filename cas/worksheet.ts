@@ -1,7 +1,9 @@
 /** Evaluates a worksheet statement by statement; one failure never stops the others. */
-import type { StatementReport, WorksheetReport } from '../shared/evaluation.js';
+import type { StatementReport, WorksheetReport, WorksheetSymbols } from '../shared/evaluation.js';
 import type { Statement } from './lang/ast.js';
-import { parseWorksheet } from './lang/parse.js';
+import { parseWorksheet, type ParsedWorksheet } from './lang/parse.js';
+import { statementNames } from './lang/statement-names.js';
+import { ENGINE_VERSION } from './version.js';
 import { blankReport, newContext, StatementFailure, type Context } from './statements/context.js';
 import { evaluateParam } from './statements/param.js';
 import { evaluateIntegral } from './statements/integral.js';
@@ -110,5 +112,34 @@ export function evaluateWorksheet(source: string, options: EvaluateOptions = {})
       clearDeadline();
     }
   });
-  return { file: options.file ?? null, ok: statements.every((r) => r.status === 'ok'), statements };
+  const lines = source.split(/\r?\n/);
+  for (const r of statements) r.source = statementText(lines[r.line - 1] ?? '');
+  return { file: options.file ?? null, ok: statements.every((r) => r.status === 'ok'), engine: ENGINE_VERSION, symbols: symbolsOf(parsed), statements };
+}
+
+/** A line without its trailing comment (a # inside a note's quotes is text, not a comment). */
+function statementText(line: string): string {
+  let quoted = false;
+  for (let k = 0; k < line.length; k++) {
+    const ch = line[k];
+    if (ch === '"') quoted = !quoted;
+    else if (ch === '#' && !quoted) return line.slice(0, k).trim();
+  }
+  return line.trim();
+}
+
+/** Declared parameters, integration variables and result names, for the editor. */
+function symbolsOf(parsed: ParsedWorksheet): WorksheetSymbols {
+  const out: WorksheetSymbols = { params: [], variables: [], results: [] };
+  const vars = new Set<string>();
+  for (const entry of parsed.lines) {
+    if (!entry.ok) continue;
+    const s = entry.statement;
+    const names = statementNames(s);
+    if (s.kind === 'param') for (const n of names.defined) out.params.push({ name: n, domain: s.domain, line: entry.line });
+    else for (const n of names.defined) out.results.push({ name: n, line: entry.line });
+    names.variables.forEach((v) => vars.add(v));
+  }
+  out.variables = [...vars];
+  return out;
 }

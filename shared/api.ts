@@ -5,6 +5,7 @@
  * shared/ imports nothing from src/, server/ or cas/.
  */
 import { z } from 'zod';
+import { LANGUAGE_LIMITS } from './language.js';
 
 export const SITE_ROLES = ['user', 'admin'] as const;
 export type SiteRole = (typeof SITE_ROLES)[number];
@@ -26,13 +27,8 @@ export const LIMITS = {
   worksheetBytes: 200 * 1024,
   /** The client's check before saving (characters; the server counts UTF-8 bytes). */
   worksheetSourceLength: 200 * 1024,
-  statementsPerWorksheet: 400,
-  statementLength: 20_000,
-  expressionDepth: 64,
-  /** Integration variables of one integral whose coefficients hold params (symbolic work grows fast). */
-  symbolicVariables: 6,
-  /** Integration variables of one integral with numbers only. */
-  numericVariables: 400,
+  /** The language's own limits (statements, length, depth, variables): one source for server and core. */
+  ...LANGUAGE_LIMITS,
   /** Consecutive failed sign-ins after which an account is locked until unlocked by e-mail. */
   failedSignInsBeforeLock: 10,
 } as const;

@@ -5,14 +5,14 @@
  */
 import { z } from 'zod';
 import { diagramData } from './diagram.js';
+import { DOMAINS } from './language.js';
 
 export const STATEMENT_KINDS = [
   'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'invalid',
 ] as const;
 export type StatementKind = (typeof STATEMENT_KINDS)[number];
 
-export const DOMAINS = ['positive', 'negative', 'real', 'complex', 'nonzero'] as const;
-export type Domain = (typeof DOMAINS)[number];
+export { DOMAINS, type Domain } from './language.js';
 
 export const complexValue = z.object({ re: z.number(), im: z.number() });
 export type ComplexValue = z.infer<typeof complexValue>;
@@ -101,6 +101,8 @@ export type BranchRecord = z.infer<typeof branchRecord>;
 
 export const statementReport = z.object({
   line: z.number(),
+  /** The statement as written (its line without the comment), so exports never re-read the source. */
+  source: z.string().default(''),
   kind: z.enum(STATEMENT_KINDS),
   name: z.string().nullable(),
   status: z.enum(['ok', 'failed', 'error']),
@@ -125,9 +127,24 @@ export const statementReport = z.object({
 });
 export type StatementReport = z.infer<typeof statementReport>;
 
+/** Names a worksheet declares, read by the parser: what the editor offers in completions and hovers. */
+export const worksheetSymbols = z.object({
+  params: z.array(z.object({ name: z.string(), domain: z.enum(DOMAINS), line: z.number() })),
+  variables: z.array(z.string()),
+  results: z.array(z.object({ name: z.string(), line: z.number() })),
+});
+export type WorksheetSymbols = z.infer<typeof worksheetSymbols>;
+
 export const worksheetReport = z.object({
   file: z.string().nullable(),
   ok: z.boolean(),
+  /** The version of the computation core that made this report; a stored report of another version is recomputed. */
+  engine: z.string().default(''),
+  symbols: worksheetSymbols.default({ params: [], variables: [], results: [] }),
   statements: z.array(statementReport),
 });
+
+/** A streamed evaluation's progress: statement `index` (0-based, of `total`) on `line` has started. */
+export const evaluationProgress = z.object({ index: z.number(), line: z.number(), total: z.number() });
+export type EvaluationProgress = z.infer<typeof evaluationProgress>;
 export type WorksheetReport = z.infer<typeof worksheetReport>;

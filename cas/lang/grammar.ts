@@ -132,9 +132,10 @@ Unary
   / "+" _ a:Unary { return a; }
   / Power
 
+// One parse of the base whether or not a power follows: trying "Atom ^ Unary" and then
+// "Atom" alone would parse every nested base twice, which is exponential in the depth.
 Power
-  = base:Atom _ "^" _ exp:Unary { return { t: 'bin', op: '^', a: base, b: exp, span: span() }; }
-  / Atom
+  = base:Atom exp:(_ "^" _ e:Unary { return e; })? { return exp === null ? base : { t: 'bin', op: '^', a: base, b: exp, span: span() }; }
 
 Atom
   = Number
@@ -150,7 +151,9 @@ ArgList
 
 Variable
   = name:Identifier !(_ "(") {
-      if (name === 'i' || name === 'pi' || name === 'e') return { t: 'const', name, span: span() };
+      // Euler's number is exp(1) in worksheets, so e is an ordinary name there; the
+      // algebra adapter's answers (options.internal) may still use the constant e.
+      if (name === 'i' || name === 'pi' || (name === 'e' && options.internal)) return { t: 'const', name, span: span() };
       return { t: 'name', name, span: span() };
     }
 

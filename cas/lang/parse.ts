@@ -3,6 +3,7 @@ import peggy from 'peggy';
 import { LINE_GRAMMAR } from './grammar.js';
 import type { Expr, Statement } from './ast.js';
 import { checkExprNames, checkStatementNames } from './validate.js';
+import { STATEMENT_KEYWORDS } from '../../shared/language.js';
 
 const lineParser = peggy.generate(LINE_GRAMMAR, { allowedStartRules: ['Line', 'Expr'] });
 
@@ -63,13 +64,13 @@ function foundWords(found: string | null, rest: string): string {
   return `"${token}"`;
 }
 
-const KEYWORDS = ['param', 'integral', 'expect', 'note', 'let', 'rotate', 'continue', 'compare', 'verify', 'limit'];
+const KEYWORDS: readonly string[] = STATEMENT_KEYWORDS;
 
 function syntaxError(e: PeggySyntaxError, text: string, line: number): ParseError {
   const column = e.location.start.column;
   const head = /^\s*([A-Za-z]+)/.exec(text)?.[1];
   if (column === 1 + (text.length - text.trimStart().length) && head !== undefined && !KEYWORDS.includes(head)) {
-    return { message: `A statement starts with one of ${listWords(KEYWORDS)}, not "${head}".`, line, column };
+    return { message: `A statement starts with one of ${listWords([...KEYWORDS])}, not "${head}".`, line, column };
   }
   const rest = text.slice(e.location.start.offset);
   const before = text.slice(0, e.location.start.offset);
@@ -115,9 +116,12 @@ export function parseWorksheet(source: string): ParsedWorksheet {
   return { lines, errors };
 }
 
-/** Parse a lone expression (results of the algebra adapter come back through here). */
+/**
+ * Parse a lone expression of the core's own making (the algebra adapter's answers,
+ * angles in words): here the name e is Euler's number, as the adapter writes it.
+ */
 export function parseExpression(text: string): Expr {
-  const expr = lineParser.parse(text, { startRule: 'Expr' }) as Expr;
+  const expr = lineParser.parse(text, { startRule: 'Expr', internal: true }) as Expr;
   const err = checkExprNames(expr, true);
   if (err) throw new Error(err.message);
   return expr;

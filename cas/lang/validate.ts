@@ -1,17 +1,13 @@
 /** Checks the grammar leaves to later: reserved names, known functions. */
 import type { Expr, NameRef, Statement } from './ast.js';
 import type { ParseError } from './parse.js';
+import { FUNCTION_NAMES, RESERVED_NAMES } from '../../shared/language.js';
 
-export const FUNCTIONS = ['exp', 'sqrt', 'log', 'sin', 'cos', 'sinh', 'cosh'] as const;
+export const FUNCTIONS = FUNCTION_NAMES;
 /** Functions the algebra adapter may hand back; never accepted from a worksheet. */
 const INTERNAL_FUNCTIONS = ['abs'];
 
-const RESERVED = new Set<string>([
-  'i', 'pi', 'e', 'd', ...FUNCTIONS, ...INTERNAL_FUNCTIONS,
-  'param', 'integral', 'expect', 'note', 'let', 'rotate', 'continue', 'compare', 'verify', 'limit',
-  'positive', 'negative', 'real', 'complex', 'nonzero',
-  'along', 'as', 'at', 'with', 'steepest', 'inf', 'tolerance',
-]);
+const RESERVED = new Set<string>([...RESERVED_NAMES, ...INTERNAL_FUNCTIONS]);
 
 function at(span: { start: { line: number; column: number } }, message: string): ParseError {
   return { message, line: span.start.line, column: span.start.column };

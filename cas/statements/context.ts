@@ -41,7 +41,7 @@ export interface Context {
 export function newContext(): Context { return { params: new Map(), results: new Map() }; }
 
 export function blankReport(line: number, kind: StatementReport['kind'], name: string | null): StatementReport {
-  return { line, kind, name, status: 'ok', convergence: null, proof: null, result: null, branch: null, steps: [], error: null };
+  return { line, source: '', kind, name, status: 'ok', convergence: null, proof: null, result: null, branch: null, steps: [], error: null };
 }
 
 /** A located failure of one statement; the worksheet goes on with the next. */

@@ -1,0 +1,77 @@
+/**
+ * Facts of the worksheet language, in one place: its statement keywords, the words
+ * inside statements, domains, functions, constants and the size limits of what it
+ * computes. The parser in cas/lang reads its word lists from here; the server's
+ * limits and the editor's completion, hover and highlighting do too, so no second
+ * copy of the language exists. shared/ imports nothing from src/, server/ or cas/.
+ *
+ * Example: FUNCTION_NAMES.includes('sqrt') is true; STATEMENTS.param.example is
+ * 'param k : positive'.
+ */
+
+/** Statement keywords with their form, a worked example and a sentence of help. */
+export const STATEMENTS = {
+  param: { form: 'param NAME, ... : DOMAIN', example: 'param k : positive', help: 'Declare parameters and their domain.' },
+  integral: { form: 'integral NAME = EXPR d(VARS)', example: 'integral Z = exp(-k*x^2/2) d(x)', help: 'A Gaussian integral over the listed real variables.' },
+  expect: { form: 'expect NAME = EXPR', example: 'expect Z = sqrt(2*pi/k)', help: 'State the expected value; a mismatch fails the worksheet.' },
+  let: { form: 'let NAME = EXPR', example: 'let F = -log(Z)', help: 'Name a quantity derived from results and parameters.' },
+  rotate: { form: 'rotate NAME : VAR -> FACTOR*VAR, ... as NEW', example: 'rotate Z : x -> exp(-i*pi/4)*x as ZR', help: 'Turn the contour of a variable; the rotation is checked.' },
+  continue: { form: 'continue NAME : PARAM along P0 -> P1 -> ... [at NAME = VALUE, ...]', example: 'continue Z : lam along 0 -> 2*i', help: 'Follow a result along a path in a parameter, recording branch points and cuts.' },
+  compare: { form: 'compare NAME with NAME', example: 'compare ZL with Z', help: 'The ratio of two results, its phase and a verdict.' },
+  verify: { form: 'verify NAME [at NAME = VALUE, ...] [with tolerance T]', example: 'verify Z at k = 2', help: 'Check a result by numerical quadrature along its contour.' },
+  limit: { form: 'limit NAME : PARAM -> VALUE | inf | -inf', example: 'limit Z : k -> inf', help: 'The limit or leading behaviour of a result.' },
+  note: { form: 'note "TEXT"', example: 'note "Euclidean version first."', help: 'Free text kept with the record.' },
+} as const;
+export type StatementKeyword = keyof typeof STATEMENTS;
+export const STATEMENT_KEYWORDS = Object.keys(STATEMENTS) as StatementKeyword[];
+
+/** Words that appear inside statements (after the keyword). */
+export const CLAUSE_WORDS = ['along', 'as', 'at', 'with', 'tolerance', 'steepest', 'inf'] as const;
+
+export const DOMAINS = ['positive', 'negative', 'real', 'complex', 'nonzero'] as const;
+export type Domain = (typeof DOMAINS)[number];
+export const DOMAIN_HELP: Record<Domain, string> = {
+  positive: 'a positive real number',
+  negative: 'a negative real number',
+  real: 'a real number',
+  complex: 'a complex number',
+  nonzero: 'a nonzero real number',
+};
+
+/** Functions of one argument, principal branches throughout. */
+export const FUNCTIONS = {
+  exp: 'exponential function; Euler\'s number is exp(1)',
+  sqrt: 'principal square root (cut along the negative real axis)',
+  log: 'principal logarithm (cut along the negative real axis)',
+  sin: 'sine',
+  cos: 'cosine',
+  sinh: 'hyperbolic sine',
+  cosh: 'hyperbolic cosine',
+} as const;
+export type FunctionName = keyof typeof FUNCTIONS;
+export const FUNCTION_NAMES = Object.keys(FUNCTIONS) as FunctionName[];
+
+/** Constants. Euler's number has no name of its own (write exp(1)), so e is free for a charge. */
+export const CONSTANTS = {
+  i: 'the imaginary unit',
+  pi: 'the circle constant',
+} as const;
+export const CONSTANT_NAMES = Object.keys(CONSTANTS) as (keyof typeof CONSTANTS)[];
+
+/** Names a worksheet cannot give to a parameter, variable or result. */
+export const RESERVED_NAMES: readonly string[] = [
+  ...CONSTANT_NAMES, ...FUNCTION_NAMES, ...STATEMENT_KEYWORDS, ...DOMAINS, ...CLAUSE_WORDS,
+];
+
+/** Size limits of the language, the same for the server's checks and the computation core. */
+export const LANGUAGE_LIMITS = {
+  statementsPerWorksheet: 400,
+  /** Characters of one statement (comments and note texts aside). */
+  statementLength: 20_000,
+  /** Nesting of parentheses in one statement. */
+  expressionDepth: 64,
+  /** Integration variables of one integral whose coefficients hold params. */
+  symbolicVariables: 4,
+  /** Integration variables of one integral with numbers only. */
+  numericVariables: 400,
+} as const;
