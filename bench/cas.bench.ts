@@ -96,7 +96,8 @@ for (let n = 1; n <= 3; n++) rows.push([`verify, numeric n = ${n}`, timeStatemen
 const evaluations = [1, 2, 3].map((n) => {
   const report = evaluateWorksheet(`${numericIntegral(n)}\nverify N${n}`);
   const v = report.statements[1]!;
-  return { n, agrees: v.agrees ?? false, evaluations: v.steps[0]?.quadrature?.evaluations ?? null };
+  const q = v.steps[0];
+  return { n, agrees: v.agrees ?? false, evaluations: q?.kind === 'numeric-check' ? q.evaluations : null };
 });
 
 const width = Math.max(...rows.map(([k]) => k.length));

@@ -39,6 +39,7 @@ try {
   run(join(projectDir, 'node_modules/.bin/ng'), ['build', '--configuration', 'production'], { cwd: projectDir, quiet: true });
   bench('client bundle sizes', 'node', ['bench/client-size.mjs']);
   bench('keystroke to updated card (headless Chromium)', tsx, ['bench/keystroke.bench.ts']);
+  bench('opening a worksheet: navigation to rendered results (headless Chromium)', tsx, ['bench/open-worksheet.bench.ts']);
 } finally {
   // A cluster that was running before this run (another run's) is left running.
   if (cluster.startedHere) cluster.stop();

@@ -26,6 +26,7 @@ import { activityRoutes } from './routes/activity.js';
 import { exportRoutes } from './routes/exports.js';
 import { fileRoutes } from './routes/files.js';
 import { refereeRoutes } from './routes/referee.js';
+import { reportRoutes } from './routes/reports.js';
 import { memberRoutes } from './routes/members.js';
 import { groupWorksheetRoutes, worksheetRoutes } from './routes/worksheets.js';
 
@@ -101,6 +102,7 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   api.use('/groups', requireUser, groupRoutes());
   api.use('/worksheets', requireUser, worksheetRoutes(evaluationPool));
   api.use('/evaluate', requireUser, evaluateRoutes(evaluationPool));
+  api.use(requireUser, reportRoutes(evaluationPool));
   api.use(requireUser, reviewRoutes(config, mailer));
   api.use(requireUser, fileRoutes(evaluationPool));
   api.use(requireUser, exportRoutes(evaluationPool));

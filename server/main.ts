@@ -45,6 +45,7 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env): Promise
     size: config.evaluationWorkers,
     timeLimitMsPerStatement: config.statementTimeLimitMs,
     maxOldGenerationSizeMb: config.evaluationWorkerMemoryMb,
+    logger,
   });
   const app = createApp({ config, logger, sessionPool, evaluationPool, mailer });
 

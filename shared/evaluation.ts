@@ -21,69 +21,265 @@ export type ComplexValue = z.infer<typeof complexValue>;
 export const polarValue = z.object({ re: z.number(), im: z.number(), arg: z.number() });
 export type PolarValue = z.infer<typeof polarValue>;
 
-export const STEP_KINDS = [
-  'integrand', 'quadratic-form', 'convergence', 'branch', 'fresnel-phase', 'result',
-  'expect', 'param', 'note', 'numeric-check', 'simplification',
-  'rotation', 'legality', 'jacobian', 'continuation', 'continuation-event', 'sheet', 'comparison', 'derived', 'limit',
-] as const;
-export type StepKind = (typeof STEP_KINDS)[number];
+/** A value outside double range, as mantissa times a power of ten (mantissa modulus in [1, 10)). */
+export const scaledValue = z.object({ mantissa: complexValue, exponent10: z.number().int() });
+export type ScaledValue = z.infer<typeof scaledValue>;
 
-/** One numbered step of the record: a sentence, a formula, and the numbers that decided it. */
-export const step = z.object({
-  kind: z.enum(STEP_KINDS),
-  text: z.string(),
-  latex: z.string(),
-  /** Eigenvalues of A (at the parameter point named in `at`, if any). */
-  eigenvalues: z.array(polarValue).optional(),
-  /** Pivots d_k of A = L D L^T without pivoting. */
-  pivots: z.array(polarValue).optional(),
-  /** Sum of the eigenvalue arguments: the principal root of det A is right iff it lies in (-pi, pi]. */
-  argumentSum: z.number().optional(),
-  /** Eigenvalues of the real symmetric Re A (convergence) or of B (Fresnel signature). */
-  realEigenvalues: z.array(z.number()).optional(),
-  signature: z.object({ positive: z.number(), negative: z.number() }).optional(),
-  /** A real direction x along which |integrand| grows (divergent integrals). */
-  direction: z.array(z.number()).optional(),
-  /** How many parameter points a sampled verdict rests on, and how many agreed. */
-  samples: z.object({ count: z.number(), agreeing: z.number() }).optional(),
-  /** Parameter values of a decisive sample point. */
-  at: z.record(z.string(), complexValue).optional(),
-  /** Largest relative deviation seen in a numeric comparison. */
-  relativeError: z.number().optional(),
-  /** Rotation angles (radians) per rotated variable, and how the swept family was checked. */
-  angles: z.object({
-    method: z.enum(['exact', 'grid']),
-    /** How many angles of the sweep were checked (grid), or 0 when decided exactly. */
-    count: z.number(),
-    values: z.record(z.string(), z.number()),
-    /** First angle (fraction t of the sweep times each angle) where the integrand grows; absent when legal. */
-    firstBad: z.number().nullable().optional(),
-  }).optional(),
-  /** A numeric quadrature: value, error estimate, integrand evaluations, time. */
-  quadrature: z.object({
-    value: complexValue,
-    errorEstimate: z.number(),
+/** A formula as the core prints it: infix text and LaTeX of the same expression. */
+export const formula = z.object({ text: z.string(), latex: z.string() });
+export type Formula = z.infer<typeof formula>;
+
+/** An exact real number (a boundary such as 30*sqrt(3)) with its decimal value. */
+export const exactNumber = formula.extend({ approx: z.number() });
+export type ExactNumber = z.infer<typeof exactNumber>;
+
+/** Parameter values of a point. */
+export const pointValues = z.record(z.string(), complexValue);
+export type PointValues = z.infer<typeof pointValues>;
+
+/** The part of a declared domain that was sampled: log-spaced magnitudes per parameter. */
+export const sampleBox = z.array(z.object({ name: z.string(), domain: z.enum(DOMAINS), from: z.number(), to: z.number() }));
+export type SampleBox = z.infer<typeof sampleBox>;
+
+/**
+ * How a verdict was reached: proved on the whole declared domain; decided in double
+ * precision at a point without parameters; or checked at `count` points of a box.
+ */
+export const basis = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('proved') }),
+  z.object({ kind: z.literal('numeric') }),
+  z.object({ kind: z.literal('sampled'), count: z.number(), agreeing: z.number(), box: sampleBox }),
+]);
+export type Basis = z.infer<typeof basis>;
+
+/** A part of the domain with its exact condition, for piecewise verdicts and results. */
+export const region = z.object({ condition: formula, holds: z.boolean() });
+
+const CONVERGENCE_VERDICTS = ['absolute', 'oscillatory', 'divergent', 'piecewise', 'unknown'] as const;
+
+/** The step kinds, each with the numbers that decided it; renderStep (shared/record) words them. */
+export const step = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('param'), names: z.array(z.string()), domain: z.enum(DOMAINS) }),
+  z.object({ kind: z.literal('note'), text: z.string() }),
+  z.object({
+    kind: z.literal('quadratic-form'),
+    vars: z.array(z.string()),
+    A: z.array(z.array(formula)), J: z.array(formula), c: formula,
+    /** derivatives: exact derivatives confirmed by the expansion; expansion: term by term; numbers: no parameters. */
+    source: z.enum(['derivatives', 'expansion', 'numbers', 'exact']),
+    /** Set on a rotated result: the coupling after the rotation. */
+    rotated: z.boolean().default(false),
+  }),
+  z.object({
+    kind: z.literal('convergence'),
+    verdict: z.enum(CONVERGENCE_VERDICTS),
+    /** sylvester: leading minors of Re A; eigenvalues / cholesky: numbers of Re A; i-epsilon: Re A semidefinite, A nonsingular; grows: a real direction of growth; no-decay: Re A singular with no oscillation to define it; source-grows: a real source along an oscillatory direction; changes: the verdict changes inside the domain. */
+    reason: z.enum(['sylvester', 'diagonal', 'eigenvalues', 'cholesky', 'i-epsilon', 'grows', 'no-decay', 'source-grows', 'changes', 'sampled']),
+    basis,
+    minors: z.array(formula).default([]),
+    realEigenvalues: z.array(z.number()).default([]),
+    smallestPivot: z.number().optional(),
+    direction: z.array(z.number()).optional(),
+    at: pointValues.optional(),
+    regions: z.array(region.extend({ verdict: z.enum(CONVERGENCE_VERDICTS) })).default([]),
+    boundaries: z.array(exactNumber).default([]),
+    counts: z.record(z.string(), z.number()).default({}),
+  }),
+  z.object({
+    kind: z.literal('branch'),
+    /** right: the principal sqrt(det A) is the continuous branch everywhere; wrong: nowhere; piecewise: see regions. */
+    principal: z.enum(['right', 'wrong', 'piecewise', 'unknown']),
+    /** one-variable / two-variables: a rule that holds on the whole domain; eigenvalues, pivots: numbers at `at`; crossings: exact cut crossings; sampled. */
+    rule: z.enum(['one-variable', 'two-variables', 'eigenvalues', 'pivots', 'crossings', 'sampled', 'principal-function']),
+    basis,
+    eigenvalues: z.array(polarValue).default([]),
+    pivots: z.array(polarValue).default([]),
+    argumentSum: z.number().optional(),
+    pivotsAgree: z.boolean().nullable().default(null),
+    crossings: z.array(exactNumber).default([]),
+    regions: z.array(region).default([]),
+    at: pointValues.optional(),
+    /** principal-function: a sqrt or log of a derived quantity, with the argument range seen. */
+    fn: z.enum(['sqrt', 'log']).optional(),
+    argument: formula.optional(),
+    argRange: z.tuple([z.number(), z.number()]).optional(),
+    nearCut: z.number().optional(),
+  }),
+  z.object({
+    kind: z.literal('fresnel-phase'),
+    signature: z.object({ positive: z.number(), negative: z.number() }),
+    realEigenvalues: z.array(z.number()).default([]),
+    basis,
+  }),
+  z.object({
+    kind: z.literal('result'),
+    name: z.string(),
+    /** The printed closed form, or null (divergent, no value). */
+    formula: formula.nullable(),
+    written: z.enum(['principal', 'negated', 'pivots', 'fresnel', 'numeric', 'none']),
+    /** Whether the printed form was confirmed against the continuous branch. */
+    verified: z.boolean(),
+    basis,
+    value: complexValue.nullable(),
+    scaled: scaledValue.optional(),
+    pieces: z.array(z.object({ condition: formula, formula })).default([]),
+  }),
+  z.object({
+    kind: z.literal('expect'),
+    name: z.string(),
+    expected: formula,
+    holds: z.boolean(),
+    /** exact: the difference simplified to 0 by algebra, confirmed by numbers. */
+    exact: z.boolean(),
+    basis,
+    /** Largest relative difference seen (null when the expected value was not finite somewhere). */
+    worst: z.number().nullable(),
+    counterexample: z.object({ at: pointValues, lhs: complexValue, rhs: complexValue.nullable() }).optional(),
+    /** Where it holds and where not, when that changes inside the domain (exact conditions). */
+    regions: z.array(region).default([]),
+    /** differs: the squares or exponentials differ exactly; sign: equal up to a sign read per cell; sampled. */
+    how: z.enum(['differs', 'sign', 'sampled']).default('sampled'),
+  }),
+  z.object({
+    kind: z.literal('numeric-check'),
+    name: z.string(),
+    at: pointValues.optional(),
+    contour: z.enum(['real', 'rotated']),
+    contourOf: z.string().optional(),
+    contourLabels: z.array(z.string()).default([]),
+    /** A further legal rotation made an oscillatory integrand absolutely convergent. */
+    extraRotation: z.object({ angles: z.array(formula), vars: z.array(z.string()), checked: z.number() }).optional(),
+    vars: z.number(),
+    value: complexValue.nullable(),
+    errorEstimate: z.number().nullable(),
     evaluations: z.number(),
     timeMs: z.number(),
     tolerance: z.number(),
+    truncation: z.number(),
     timedOut: z.boolean(),
-  }).optional(),
-  /** A continuation event: what kind, and where on the path (parameter values). */
-  event: z.object({
-    kind: z.string(),
-    at: z.record(z.string(), complexValue),
-    /** Distance from the path to a branch point, when one was located. */
+    /** Largest relative difference between the polarized numbers and the integrand at random points. */
+    integrandCheck: z.number(),
+    /** Why no quadrature ran, when none did. */
+    refused: z.enum(['too-many-variables', 'no-contour']).optional(),
+  }),
+  z.object({
+    kind: z.literal('numeric-agreement'),
+    name: z.string(),
+    closed: complexValue.nullable(),
+    relativeDifference: z.number().nullable(),
+    tolerance: z.number(),
+    agrees: z.boolean(),
+  }),
+  z.object({
+    kind: z.literal('rotation'),
+    moves: z.array(z.object({ variable: z.string(), angle: formula, radians: z.number(), wick: z.boolean(), steepest: z.boolean() })),
+  }),
+  z.object({
+    kind: z.literal('legality'),
+    legal: z.boolean(),
+    method: z.enum(['exact', 'grid']),
+    /** Angles of the sweep checked (grid), 0 when decided exactly. */
+    count: z.number(),
+    basis,
+    /** The first bad angle: for one variable the angle itself, else the fraction t of the sweep. */
+    firstBad: z.object({ angle: formula.optional(), t: z.number().optional(), perVariable: z.record(z.string(), formula).default({}) }).optional(),
+    vars: z.array(z.string()).default([]),
+    direction: z.array(z.number()).optional(),
+    at: pointValues.optional(),
+    /** Where the rotation is allowed and where not, when that changes inside the domain (exact conditions). */
+    regions: z.array(region).default([]),
+    /** The angles that are allowed for a one-variable rotation, exactly. */
+    range: formula.optional(),
+    /** The integral diverges on the real contour: the rotated contour defines it (no sweep from the real line). */
+    defines: z.boolean().default(false),
+  }),
+  z.object({ kind: z.literal('jacobian'), factor: formula, totalAngle: formula }),
+  z.object({
+    kind: z.literal('continuation'),
+    name: z.string(),
+    path: z.array(z.array(formula)),
+    fixed: pointValues,
+    /** Parameters given a value by the record (the simplest point of their domain). */
+    chosen: z.array(z.string()).default([]),
+    steps: z.number(), refined: z.number(),
+    eigenRoute: z.boolean(), routesAgree: z.boolean(),
+  }),
+  z.object({
+    kind: z.literal('continuation-event'),
+    event: z.enum(['branch-point', 'cut-crossed', 'convergence-lost', 'convergence-regained']),
+    at: pointValues,
     distance: z.number().optional(),
-  }).optional(),
-  /** The ratio of a comparison at the sampled points is exp(i m pi/4) with this m. */
-  phaseOverPiQuarter: z.number().nullable().optional(),
-});
+    side: z.enum(['left', 'right']).optional(),
+    simple: z.boolean().optional(),
+    closest: pointValues.optional(),
+    fromAbove: z.boolean().optional(),
+    rotation: z.object({ theta: z.number(), from: z.number(), to: z.number() }).nullable().optional(),
+  }),
+  z.object({
+    kind: z.literal('sheet'),
+    name: z.string(),
+    at: pointValues,
+    continued: complexValue, principal: complexValue,
+    sheet: z.enum(['principal', 'minus-principal']),
+    value: complexValue,
+    closed: formula.nullable(),
+    onCut: z.boolean(),
+    eigenvalues: z.array(polarValue).default([]),
+  }),
+  z.object({
+    kind: z.literal('comparison'),
+    a: z.string(), b: z.string(),
+    ratio: formula.nullable(),
+    ratioValue: complexValue,
+    constant: z.boolean(),
+    basis,
+    spread: z.number(),
+  }),
+  z.object({
+    kind: z.literal('comparison-verdict'),
+    a: z.string(), b: z.string(),
+    verdict: z.enum(['equal', 'phase', 'different']),
+    phaseOverPiQuarter: z.number().nullable(),
+    phase: z.number().optional(),
+    example: z.object({ at: pointValues.optional(), ratio: complexValue }).optional(),
+  }),
+  z.object({
+    kind: z.literal('derived'),
+    name: z.string(),
+    definition: formula,
+    closed: formula.nullable(),
+    compared: z.number(), agreeing: z.number(),
+    usesResults: z.boolean(),
+    value: complexValue.nullable(),
+  }),
+  z.object({
+    kind: z.literal('limit'),
+    name: z.string(),
+    param: z.string(),
+    to: formula,
+    /** value: a finite limit; asymptotic: leading behaviour ~; divergent; oscillating; unknown. */
+    outcome: z.enum(['value', 'asymptotic', 'divergent', 'oscillating', 'unknown']),
+    formula: formula.nullable(),
+    value: complexValue.nullable(),
+    /** How it was found, in a word the renderer turns into a clause. */
+    method: z.enum(['substitution', 'algebra-limit', 'recognised', 'read-off', 'logarithmic', 'expansion', 'none']),
+    basis,
+    checks: z.object({ count: z.number(), worst: z.number(), at: z.number().optional() }).optional(),
+    power: z.number().optional(),
+    correction: z.object({ formula: formula.nullable(), power: z.number() }).optional(),
+    constantTerm: complexValue.optional(),
+    at: pointValues.optional(),
+  }),
+]);
 export type Step = z.infer<typeof step>;
+export type StepKind = Step['kind'];
+export type StepOf<K extends StepKind> = Extract<Step, { kind: K }>;
+export const STEP_KINDS = step.options.map((o) => o.shape.kind.value) as StepKind[];
 
 export const statementError = z.object({ message: z.string(), line: z.number(), column: z.number() });
 export type StatementError = z.infer<typeof statementError>;
 
-export const CONVERGENCE = ['absolute', 'oscillatory', 'divergent', 'unknown'] as const;
+export const CONVERGENCE = ['absolute', 'oscillatory', 'divergent', 'piecewise', 'unknown'] as const;
 export type Convergence = (typeof CONVERGENCE)[number];
 export const PROOF = ['proved', 'sampled'] as const;
 export type Proof = (typeof PROOF)[number];
@@ -91,12 +287,18 @@ export type Proof = (typeof PROOF)[number];
 export const resultRecord = z.object({
   text: z.string(),
   latex: z.string(),
-  /** Present when the result has no free parameters. */
+  /** Present when the result has no free parameters and fits in double precision. */
   value: complexValue.nullable(),
+  /** Present instead of value when the value is outside double range. */
+  scaled: scaledValue.optional(),
 });
 export type ResultRecord = z.infer<typeof resultRecord>;
 
-export const branchRecord = z.object({ principalSqrtDetCorrect: z.boolean(), reason: z.string() });
+/** The branch verdict of a Gaussian result; its reasons are the statement's `branch` step. */
+export const branchRecord = z.object({
+  principalSqrtDetCorrect: z.boolean(),
+  principal: z.enum(['right', 'wrong', 'piecewise', 'unknown']),
+});
 export type BranchRecord = z.infer<typeof branchRecord>;
 
 export const statementReport = z.object({

@@ -1,6 +1,9 @@
-/** The readable (non-JSON) report of the command line tool. */
+/** The readable (non-JSON) report of the command line tool; every step worded by the shared renderer. */
 import type { StatementReport, WorksheetReport } from '../../shared/evaluation.js';
-import { complexFromParts, quarterPhaseText } from '../gaussian/describe.js';
+import { renderStep } from '../../shared/record/render.js';
+import { complexApprox } from '../../shared/record/numbers.js';
+
+const quarterPhase = (m: number) => (m === 1 ? 'exp(i*pi/4)' : m === -1 ? 'exp(-i*pi/4)' : `exp(${m}*i*pi/4)`);
 
 function statementLines(s: StatementReport): string[] {
   const head = `line ${s.line}  ${s.kind}${s.name ? ` ${s.name}` : ''}: ${s.status}`;
@@ -8,15 +11,15 @@ function statementLines(s: StatementReport): string[] {
   if (s.error) out.push(`  error (line ${s.error.line}, column ${s.error.column}): ${s.error.message}`);
   if (s.convergence) out.push(`  convergence: ${s.convergence} (${s.proof === 'proved' ? 'proved' : 'sampled, not proved'})`);
   if (s.result) {
-    out.push(`  result: ${s.name ?? ''} = ${s.result.text}`);
-    if (s.result.value) out.push(`  value: ${complexFromParts(s.result.value.re, s.result.value.im, String)}`);
+    out.push(`  result: ${s.name ?? ''} ${s.result.text.startsWith('≈') ? '' : '= '}${s.result.text}`);
+    if (s.result.value) out.push(`  value: ${complexApprox(s.result.value, 17)}`);
   }
-  if (s.branch) out.push(`  branch: principal sqrt(det A) ${s.branch.principalSqrtDetCorrect ? 'is correct' : 'is NOT correct everywhere'}`);
+  if (s.branch) out.push(`  branch: principal sqrt(det A) ${{ right: 'is correct', wrong: 'is NOT correct', piecewise: 'is correct only on part of the domain', unknown: 'undecided' }[s.branch.principal]}`);
   if (s.legal !== undefined) out.push(`  legal: ${s.legal}`);
   if (s.sheet) out.push(`  sheet: ${s.sheet}`);
-  if (s.verdict) out.push(`  verdict: ${s.verdict}${s.phaseOverPiQuarter !== undefined && s.phaseOverPiQuarter !== null ? ` (phase ${quarterPhaseText(s.phaseOverPiQuarter)})` : ''}`);
+  if (s.verdict) out.push(`  verdict: ${s.verdict}${s.phaseOverPiQuarter !== undefined && s.phaseOverPiQuarter !== null ? ` (phase ${quarterPhase(s.phaseOverPiQuarter)})` : ''}`);
   if (s.agrees !== undefined) out.push(`  agrees: ${s.agrees}`);
-  if (s.kind !== 'param' && s.kind !== 'note') s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${st.text}`));
+  if (s.kind !== 'param' && s.kind !== 'note') s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${renderStep(st).text}`));
   return out;
 }
 

@@ -1,6 +1,6 @@
 /** Parameter points inside the declared domains, from a fixed seed so that a record is reproducible. */
 import { Complex } from 'complex.js';
-import type { Domain } from '../../shared/evaluation.js';
+import type { Basis, Domain, SampleBox } from '../../shared/evaluation.js';
 import { complexFromParts } from '../gaussian/describe.js';
 
 export type Params = ReadonlyMap<string, Domain>;
@@ -20,6 +20,16 @@ export function rng(seed: number): () => number {
 
 /** Magnitudes spread over two decades, where couplings usually live. */
 function magnitude(r: () => number): number { return Math.exp((r() * 2 - 1) * Math.log(10)); }
+
+/** The box samplePoints draws from, for the record: magnitudes 0.1 to 10 (the first point is the simplest value). */
+export function sampleBox(params: Params, names: readonly string[]): SampleBox {
+  return names.map((name) => ({ name, domain: params.get(name) ?? 'complex', from: 0.1, to: 10 }));
+}
+
+/** A verdict checked at `count` points of the standard box, `agreeing` of them agreeing. */
+export function sampledBasis(params: Params, names: readonly string[], count: number, agreeing = count): Basis {
+  return { kind: 'sampled', count, agreeing, box: sampleBox(params, names) };
+}
 
 export function sampleValue(domain: Domain, r: () => number): Complex {
   const m = magnitude(r);

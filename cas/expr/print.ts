@@ -1,5 +1,7 @@
 /** Plain infix text and KaTeX LaTeX of an expression, with the fewest parentheses that keep its meaning. */
 import type { Expr } from '../lang/ast.js';
+import type { Formula } from '../../shared/evaluation.js';
+import { tidy } from './tidy.js';
 
 const PREC = { add: 1, mul: 2, neg: 3, pow: 4, atom: 5 } as const;
 
@@ -10,6 +12,12 @@ function prec(e: Expr): number {
     case 'num': return e.v.includes('/') ? PREC.mul : PREC.atom;
     default: return PREC.atom;
   }
+}
+
+/** The printed pair the record carries for a formula: infix text and LaTeX of the tidied expression. */
+export function formulaOf(e: Expr): Formula {
+  const t = tidy(e);
+  return { text: toText(t), latex: toLatex(t) };
 }
 
 export function toText(e: Expr): string {
@@ -49,7 +57,7 @@ function latexName(n: string): string {
   return subscript !== undefined ? `${head}_{${subscript.replace(/_/g, '\\_')}}` : head;
 }
 
-const FN_TEX: Record<string, string> = { log: '\\log', sin: '\\sin', cos: '\\cos', sinh: '\\sinh', cosh: '\\cosh', exp: '\\exp' };
+const FN_TEX: Record<string, string> = { tan: '\\tan', log: '\\log', sin: '\\sin', cos: '\\cos', sinh: '\\sinh', cosh: '\\cosh', exp: '\\exp' };
 
 function startsWithDigit(tex: string): boolean { return /^[0-9]/.test(tex); }
 

@@ -111,7 +111,7 @@ function twoPiPower(n: number): Expr {
 }
 
 /** exp(i pi s / 4), exact for the eighth roots of unity. */
-function fresnelPhase(s: number): Expr {
+export function fresnelPhase(s: number): Expr {
   const m = ((s % 8) + 8) % 8;
   const units: Record<number, Expr> = { 0: num(1), 2: I, 4: num(-1), 6: neg(I) };
   if (units[m]) return units[m]!;

@@ -1,5 +1,5 @@
 /** Convergence of a Gaussian integral at one numeric point, from Re A and Im A. */
-import type { CMat } from '../numeric/cmatrix.js';
+import { luSolveDet, type CMat } from '../numeric/cmatrix.js';
 import { symEig } from '../numeric/symeig.js';
 import { smallestCholeskyPivot } from '../numeric/cholesky.js';
 
@@ -29,6 +29,15 @@ function tidyDirection(v: number[]): number[] {
   return v.map((x) => Number((s * x).toPrecision(6)) + 0);
 }
 
+/** |det A| clearly away from 0 relative to the entries' scale (LU with partial pivoting). */
+function nonsingular(a: CMat): boolean {
+  const n = a.n;
+  const r = luSolveDet(a, Array.from({ length: n }, () => ({ re: 0, im: 0 })));
+  if (!r) return false;
+  const scale = Math.max(scaleOf(a), 1e-300);
+  return Math.hypot(r.det.re, r.det.im) > 1e-10 * scale ** n;
+}
+
 export function convergenceAt(a: CMat): PointVerdict {
   const n = a.n;
   const tol = 1e-10 * Math.max(scaleOf(a), 1e-300);
@@ -53,7 +62,9 @@ export function convergenceAt(a: CMat): PointVerdict {
   }));
   const me = symEig(m);
   const k = me.values.findIndex((x) => Math.abs(x) <= tol);
-  if (k < 0) return { kind: 'oscillatory', realEigenvalues: re.values, kernelDim: kernel.length };
+  // A semidefinite Re A with A nonsingular defines the integral as the limit of A + epsilon*I
+  // (i*epsilon), even where Im A is degenerate on ker Re A (exp(-x^2 + i*x*y) is 2*pi).
+  if (k < 0 || nonsingular(a)) return { kind: 'oscillatory', realEigenvalues: re.values, kernelDim: kernel.length };
   const coeffs = me.vectors[k]!;
   const direction = Array.from({ length: n }, (_, i) => kernel.reduce((s, u, j) => s + coeffs[j]! * u[i]!, 0));
   return { kind: 'divergent', realEigenvalues: re.values, direction: tidyDirection(direction), grows: false };

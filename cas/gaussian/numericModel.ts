@@ -43,3 +43,25 @@ export function analyzeAt(f: NumericForm): PointAnalysis {
   const branch = branchAt(f.A, verdict.kind === 'absolute');
   return { verdict, branch, value: gaussianValue(f, branch.sqrtDet) };
 }
+
+/**
+ * The value through its logarithm, for values outside double range:
+ * log V = log(prefactor) + (n/2) log(2 pi) - log(sqrt det A) + J^T A^-1 J / 2 + c,
+ * returned as mantissa * 10^exponent10.
+ */
+export function gaussianValueScaled(f: NumericForm, sqrtDet: C): { mantissa: C; exponent10: number } | null {
+  const n = f.A.n;
+  const fact = ldl(f.A);
+  const x = fact ? ldlSolve(fact, f.J) : luSolveDet(f.A, f.J)?.x;
+  if (!x) return null;
+  let q: C = { re: 0, im: 0 };
+  for (let k = 0; k < n; k++) { const t = cmul(f.J[k]!, x[k]!); q = { re: q.re + t.re, im: q.im + t.im }; }
+  const logAbs = Math.log(Math.hypot(f.prefactor.re, f.prefactor.im)) + (n / 2) * Math.log(2 * Math.PI)
+    - Math.log(Math.hypot(sqrtDet.re, sqrtDet.im)) + q.re / 2 + f.c.re;
+  const phase = Math.atan2(f.prefactor.im, f.prefactor.re) - Math.atan2(sqrtDet.im, sqrtDet.re) + q.im / 2 + f.c.im;
+  if (!Number.isFinite(logAbs) || !Number.isFinite(phase)) return null;
+  const log10 = logAbs / Math.LN10;
+  const e = Math.floor(log10);
+  const m = Math.pow(10, log10 - e);
+  return { mantissa: { re: m * Math.cos(phase), im: m * Math.sin(phase) }, exponent10: e };
+}

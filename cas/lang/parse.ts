@@ -1,11 +1,11 @@
 /** Worksheet parsing: one PEG parse per line, errors as plain sentences with positions. */
-import peggy from 'peggy';
-import { LINE_GRAMMAR } from './grammar.js';
+import { parse as parseLine } from './line-parser.generated.js';
 import type { Expr, Statement } from './ast.js';
 import { checkExprNames, checkStatementNames } from './validate.js';
 import { STATEMENT_KEYWORDS } from '../../shared/language.js';
 
-const lineParser = peggy.generate(LINE_GRAMMAR, { allowedStartRules: ['Line', 'Expr'] });
+// Compiled ahead of time from line.peggy (scripts/build-grammar.mjs).
+const lineParser = { parse: parseLine };
 
 export interface ParseError { message: string; line: number; column: number }
 
@@ -98,6 +98,13 @@ export function parseWorksheet(source: string): ParsedWorksheet {
     try {
       statement = lineParser.parse(text, { startRule: 'Line', line, offset: lineOffset }) as Statement | null;
     } catch (e) {
+      if (e instanceof RangeError) {
+        // a chain of thousands of ^ or - runs the recursive parser out of stack
+        const error = { message: 'This statement nests operators too deeply to read; split it with let.', line, column: 1 };
+        errors.push(error);
+        lines.push({ ok: false, line, kind: statementKindOf(text), error });
+        return;
+      }
       if (!isPeggyError(e)) throw e;
       const error = syntaxError(e, text, line);
       errors.push(error);

@@ -9,8 +9,8 @@ import { div } from '../expr/build.js';
 import { toLatex, toText } from '../expr/print.js';
 import { tidy } from '../expr/tidy.js';
 import { rewriteChecked } from '../algebra/adapter.js';
-import { describePoint, pointRecord, samplePoints } from '../domains/sample.js';
-import { complexText, quarterPhaseText } from '../gaussian/describe.js';
+import { pointRecord, sampledBasis, samplePoints } from '../domains/sample.js';
+import { complexApprox, complexApproxLatex } from '../../shared/record/numbers.js';
 import { checkDeadline } from '../deadline.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { resultNamed } from './shared.js';
@@ -47,8 +47,8 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
   report.verdict = verdict;
   report.phaseOverPiQuarter = constant && Math.abs(modulus - 1) < 1e-9 && isQuarter ? (m === -4 ? 4 : m) : null;
   // the symbolic ratio, kept only when it agrees with the numbers
-  let ratioText = complexText(r0, 12);
-  let ratioLatex = ratioText;
+  let ratioText: string | null = null;
+  let ratioLatex: string | null = null;
   if (a.expr && b.expr) {
     const sym = rewriteChecked('simplify', div(a.expr, b.expr), points.slice(0, 8));
     const t = tidy(sym.expr);
@@ -57,26 +57,24 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
     });
     if (symAgrees) { ratioText = toText(t); ratioLatex = toLatex(t); }
   }
-  const where = names.length ? `at ${ratios.length} sampled points` : 'at the computed values';
   const worst = ratios.reduce((w, x) => (Math.hypot(x.r.re - 1, x.r.im) > Math.hypot(w.r.re - 1, w.r.im) ? x : w), ratios[0]!);
+  const basis = names.length
+    ? sampledBasis(domainsOf(ctx, names), names, ratios.length, ratios.filter(({ r }) => Math.hypot(r.re - r0.re, r.im - r0.im) < 1e-9 * Math.max(1, modulus)).length)
+    : { kind: 'numeric' as const };
   report.steps.push({
-    kind: 'comparison',
-    text: `${s.target.name}/${s.other.name} = ${ratioText}${constant ? `, constant ${where} (checked at ${ratios.length} points${names.length ? ', not proved' : ''})` : `; not constant ${where}`}.`,
-    latex: `\\frac{${s.target.name}}{${s.other.name}} = ${ratioLatex}`,
-    samples: { count: ratios.length, agreeing: ratios.filter(({ r }) => Math.hypot(r.re - r0.re, r.im - r0.im) < 1e-9 * Math.max(1, modulus)).length },
-    relativeError: spread,
+    kind: 'comparison', a: s.target.name, b: s.other.name,
+    ratio: ratioText === null ? null : { text: ratioText, latex: ratioLatex! },
+    ratioValue: r0, constant, basis, spread,
+  });
+  report.steps.push({
+    kind: 'comparison-verdict', a: s.target.name, b: s.other.name, verdict,
     phaseOverPiQuarter: report.phaseOverPiQuarter,
+    ...(verdict === 'phase' && report.phaseOverPiQuarter === null ? { phase: arg } : {}),
+    ...(verdict === 'different' ? { example: { ...(names.length ? { at: pointRecord(worst.p) } : {}), ratio: worst.r } } : {}),
   });
-  const phaseWords = report.phaseOverPiQuarter !== null ? quarterPhaseText(report.phaseOverPiQuarter) : `exp(i*${Number(arg.toPrecision(8))})`;
-  report.steps.push({
-    kind: 'comparison',
-    text: verdict === 'equal' ? `Verdict: equal (ratio 1 ${where}).`
-      : verdict === 'phase' ? `Verdict: equal up to the constant phase ${phaseWords}${report.phaseOverPiQuarter !== null ? ` (${report.phaseOverPiQuarter} times pi/4)` : ', not a multiple of pi/4'}.`
-      : `Verdict: different; for example at ${names.length ? describePoint(worst.p) : 'the computed values'} the ratio is ${complexText(worst.r, 10)}.`,
-    latex: verdict === 'different' ? `${s.target.name} \\neq ${s.other.name}` : verdict === 'equal' ? `${s.target.name} = ${s.other.name}` : `${s.target.name} = e^{${report.phaseOverPiQuarter ?? ''} i\\pi/4} ${s.other.name}`,
-    ...(verdict === 'different' && names.length ? { at: pointRecord(worst.p) } : {}),
-  });
-  report.result = { text: ratioText, latex: ratioLatex, value: names.length === 0 || constant ? r0 : null };
+  report.result = ratioText !== null
+    ? { text: ratioText, latex: ratioLatex!, value: names.length === 0 || constant ? r0 : null }
+    : { text: complexApprox(r0, 12), latex: complexApproxLatex(r0, 12), value: names.length === 0 || constant ? r0 : null };
   return report;
 }
 

@@ -12,7 +12,9 @@ import type { Statement } from '../lang/ast.js';
 import { Complex } from 'complex.js';
 import { evaluate } from '../expr/evaluate.js';
 import { freeNames, substitute } from '../expr/names.js';
-import { toLatex, toText } from '../expr/print.js';
+import { formulaOf } from '../expr/print.js';
+import { renderStep } from '../../shared/record/render.js';
+import { complexApprox, complexApproxLatex } from '../../shared/record/numbers.js';
 import { tidy } from '../expr/tidy.js';
 import { neg } from '../expr/build.js';
 import { rewriteChecked } from '../algebra/adapter.js';
@@ -59,44 +61,41 @@ export function evaluateContinue(s: Extract<Statement, { kind: 'continue' }>, ct
   const principal = csqrt(end.det);
   const sign = principal.re * end.sqrtDet.re + principal.im * end.sqrtDet.im >= 0 ? 1 : -1;
   report.sheet = sign > 0 ? 'principal' : 'minus-principal';
-  const fmtT = (t: Complex[]) => moving.map((m, k) => `${m} = ${complexText(t[k]!, 6)}`).join(', ');
   const rec = (t: Complex[]) => Object.fromEntries(moving.map((m, k) => [m, { re: t[k]!.re, im: t[k]!.im }]));
   const events: DiagramEvent[] = [];
   const steps: Step[] = [];
-  const baseWords = base.size ? ` with ${[...base].map(([k, v]) => `${k} = ${complexText(v, 6)}`).join(', ')}${others.length ? ' (values chosen by the record: the simplest point of their domains)' : ''}` : '';
+  const stepOfEvent: number[] = [];
+  const addEvent = (st: Step, ev: DiagramEvent) => { steps.push(st); ev.step = steps.length; events.push(ev); };
   steps.push({
-    kind: 'continuation',
-    text: `Continued ${name} along ${s.points.map((pt) => (pt.length > 1 ? `(${pt.map(toText).join(', ')})` : toText(pt[0]!))).join(' -> ')}${baseWords}: ${samples.length - 1} adaptive steps (${run.rejected} refined), eigenvalues of A ${run.eigenRoute ? 'followed at every step, each square root chosen continuous with the last' : 'followed at sampled steps; the square root of det A followed through the L D L^T pivots at every step'}; det A followed as a second route with its phase unwrapped (${run.routesAgree ? 'the two routes agree' : 'WARNING: the routes disagree'}).`,
-    latex: `\\det(A)^{1/2}\\ \\text{followed continuously along the path}`,
+    kind: 'continuation', name,
+    path: s.points.map((pt) => pt.map(formulaOf)),
+    fixed: Object.fromEntries([...base].map(([k, v]) => [k, { re: v.re, im: v.im }])),
+    chosen: others, steps: samples.length - 1, refined: run.rejected,
+    eigenRoute: run.eigenRoute, routesAgree: run.routesAgree,
   });
   for (const bp of run.branchPoints) {
-    const ev: DiagramEvent = { kind: 'branch-point', at: { re: bp.at.re, im: bp.at.im }, text: `Branch point at ${moving[0]} = ${complexText(bp.at, 6)}, passed at distance ${Number(bp.distance.toPrecision(4))} on the ${bp.side} of the path` };
-    events.push(ev);
-    steps.push({ kind: 'continuation-event', text: `${ev.text} (det A = 0 there, a ${bp.simple ? 'simple' : 'higher-order'} zero, located by Newton's method from the closest approach at ${fmtT(bp.closest)}).`, latex: `\\det A = 0`, event: { kind: 'branch-point', at: { [moving[0]!]: { re: bp.at.re, im: bp.at.im } }, distance: bp.distance } });
+    const st: Step = { kind: 'continuation-event', event: 'branch-point', at: { [moving[0]!]: { re: bp.at.re, im: bp.at.im } }, distance: bp.distance, side: bp.side, simple: bp.simple, closest: rec(bp.closest) };
+    addEvent(st, { kind: 'branch-point', at: { re: bp.at.re, im: bp.at.im }, text: renderStep(st).text });
   }
   for (const c of run.cuts) {
-    const ev: DiagramEvent = { kind: 'cut-crossed', at: { re: c.t[0]!.re, im: c.t[0]!.im }, text: `det A crosses the negative real axis (the principal cut of 1/sqrt(det A)) at ${fmtT(c.t)}, from ${c.fromAbove ? 'above' : 'below'}` };
-    events.push(ev);
-    steps.push({ kind: 'continuation-event', text: `${ev.text}: the principal root jumps there, the continued one does not.`, latex: '\\arg \\det A = \\pm\\pi', event: { kind: 'cut-crossed', at: rec(c.t) } });
+    const st: Step = { kind: 'continuation-event', event: 'cut-crossed', at: rec(c.t), fromAbove: c.fromAbove };
+    addEvent(st, { kind: 'cut-crossed', at: { re: c.t[0]!.re, im: c.t[0]!.im }, text: renderStep(st).text });
   }
   for (const c of run.convergence) {
+    const at = { re: c.t[0]!.re, im: c.t[0]!.im };
     if (c.lost) {
       const rot = commonRotation(Aof(c.after));
-      const text = rot
-        ? `The real contour stops converging at ${fmtT(c.t)} (Re A loses positive definiteness); the common rotation x -> exp(i*theta)*x with theta = ${Number(rot.theta.toPrecision(6))} (allowed for theta in (${Number(rot.from.toPrecision(4))}, ${Number(rot.to.toPrecision(4))}), on a grid of 721 angles) keeps the integral defined just beyond`
-        : `The real contour stops converging at ${fmtT(c.t)}, and no common rotation angle keeps the integral defined just beyond (checked on a grid of 721 angles); the value is continued analytically only`;
-      events.push({ kind: 'convergence-lost', at: { re: c.t[0]!.re, im: c.t[0]!.im }, text });
-      steps.push({ kind: 'continuation-event', text: `${text}.`, latex: '\\operatorname{Re} A \\not\\succ 0', event: { kind: 'convergence-lost', at: rec(c.t) } });
-      if (rot) events.push({ kind: 'contour-rotated', at: { re: c.t[0]!.re, im: c.t[0]!.im }, text: `Contour rotated by theta = ${Number(rot.theta.toPrecision(4))}` });
+      const st: Step = { kind: 'continuation-event', event: 'convergence-lost', at: rec(c.t), rotation: rot };
+      addEvent(st, { kind: 'convergence-lost', at, text: renderStep(st).text });
+      if (rot) events.push({ kind: 'contour-rotated', at, text: `Contour rotated by theta ${complexApprox({ re: rot.theta, im: 0 }, 4)}` });
     } else {
-      const text = `The real contour converges again from ${fmtT(c.t)}`;
-      events.push({ kind: 'convergence-regained', at: { re: c.t[0]!.re, im: c.t[0]!.im }, text });
-      steps.push({ kind: 'continuation-event', text: `${text}.`, latex: '\\operatorname{Re} A \\succ 0', event: { kind: 'convergence-regained', at: rec(c.t) } });
+      const st: Step = { kind: 'continuation-event', event: 'convergence-regained', at: rec(c.t) };
+      addEvent(st, { kind: 'convergence-regained', at, text: renderStep(st).text });
     }
   }
+  void stepOfEvent;
   // closed form at the end, with the sheet sign, where the path ends at an expression
-  let closedText = '';
-  let closedLatex = '';
+  let closed: { text: string; latex: string } | null = null;
   if (r.expr) {
     const last = s.points[s.points.length - 1]!;
     const map = new Map(moving.map((m, k) => [m, last[k]!]));
@@ -105,21 +104,17 @@ export function evaluateContinue(s: Extract<Statement, { kind: 'continue' }>, ct
     const chk = [...samplePoints(domainsOf(ctx, others), others, 6, 5)].map((p) => new Map([...fixed, ...p]));
     const simp = tidy(rewriteChecked('simplify', signed, chk.length ? chk : [new Map()]).expr);
     const at0 = (() => { try { return evaluate(simp, base); } catch { return null; } })();
-    if (at0 && Math.hypot(at0.re - value.re, at0.im - value.im) <= 1e-8 * Math.hypot(value.re, value.im)) { closedText = toText(simp); closedLatex = toLatex(simp); }
+    if (at0 && Math.hypot(at0.re - value.re, at0.im - value.im) <= 1e-8 * Math.hypot(value.re, value.im)) closed = formulaOf(simp);
   }
-  const sheetText = sign > 0 ? 'the principal sheet (the end value equals the closed form with the principal 1/sqrt(det A))' : 'minus the principal sheet (the end value is minus the closed form with the principal 1/sqrt(det A))';
   events.push({ kind: 'sheet', at: { re: end.t[0]!.re, im: end.t[0]!.im }, text: `End value on ${sign > 0 ? 'the principal sheet' : 'minus the principal sheet'}` });
-  events.push({ kind: 'end', at: { re: end.t[0]!.re, im: end.t[0]!.im }, text: `${name} = ${complexText(value, 10)}` });
+  events.push({ kind: 'end', at: { re: end.t[0]!.re, im: end.t[0]!.im }, text: `${name} ${complexApprox(value, 10)}` });
   const onCut = Math.abs(end.det.im) <= 1e-12 * Math.hypot(end.det.re, end.det.im) && end.det.re < 0;
   steps.push({
-    kind: 'sheet',
-    text: `At the end point ${fmtT(end.t)} the continued sqrt(det A) = ${complexText(end.sqrtDet, 10)} and the principal one = ${complexText(principal, 10)}: ${name} ends on ${sheetText}${onCut ? '; the end point lies on the cut itself, where "principal" means arg(det A) = pi' : ''}. ${name} = ${complexText(value, 15)}${closedText ? ` = ${closedText}` : ''}.`,
-    latex: `${name} = ${closedLatex || complexText(value, 12)}`,
+    kind: 'sheet', name, at: rec(end.t), continued: end.sqrtDet, principal, sheet: report.sheet, value, closed, onCut,
     eigenvalues: end.eigenvalues.map(polar),
   });
-  steps.forEach((st, k) => { const e = events.find((ev) => st.text.startsWith(ev.text)); if (e) e.step = k + 1; });
   report.steps.push(...steps);
-  report.result = { text: closedText || complexText(value, 15), latex: closedLatex || complexText(value, 15), value };
+  report.result = closed ? { ...closed, value } : { text: complexApprox(value, 15), latex: complexApproxLatex(value, 15), value };
   const diagram: DiagramData = {
     contours: [], sectors: [], cuts: [PRINCIPAL_CUT],
     paths: [{ label: `Path of ${moving[0]}`, parameter: moving[0]!, points: thin(samples.map((x) => ({ re: x.t[0]!.re, im: x.t[0]!.im }))), events }],

@@ -1,14 +1,18 @@
 /** integral NAME = EXPR d(VARS): a Gaussian integral with its convergence, branch and closed form on the record. */
 import type { Convergence, Proof, Step, StatementReport } from '../../shared/evaluation.js';
 import type { Expr, Statement } from '../lang/ast.js';
+import { LANGUAGE_LIMITS } from '../../shared/language.js';
+import { exactFormOf } from '../verdicts/exactForm.js';
+import { analyzeOnLine } from '../verdicts/exactGaussian.js';
+import { evaluateIntegralExactly, NonFiniteValue } from './integralExact.js';
 import { freeNames, substitute } from '../expr/names.js';
 import { neg, num } from '../expr/build.js';
 import { complexExpr } from '../expr/numberExpr.js';
 import { evaluate } from '../expr/evaluate.js';
-import { toLatex, toText } from '../expr/print.js';
+import { formulaOf, toLatex, toText } from '../expr/print.js';
 import { tidy } from '../expr/tidy.js';
 import { agreeAt, differentiate, rewriteChecked } from '../algebra/adapter.js';
-import { describePoint, pointRecord, samplePoints, type Point } from '../domains/sample.js';
+import { pointRecord, sampledBasis, samplePoints, type Point } from '../domains/sample.js';
 import { checkDeadline } from '../deadline.js';
 import { splitIntegrand, IntegrandError } from '../gaussian/integrand.js';
 import { expand, NotPolynomial, prune, totalDegree } from '../gaussian/polynomial.js';
@@ -23,8 +27,8 @@ type IntegralStatement = Extract<Statement, { kind: 'integral' }>;
 
 /** How many parameter points a sampled verdict rests on. */
 export const SAMPLE_COUNT = 32;
-/** Largest number of variables with symbolic parameters (cofactor expansion grows as n!). */
-const MAX_SYMBOLIC_VARS = 4;
+/** Largest number of variables with symbolic parameters: the language's own limit. */
+const MAX_SYMBOLIC_VARS = LANGUAGE_LIMITS.symbolicVariables;
 
 function fail(message: string, line: number, span: { start: { column: number } } | undefined, fallback: number): never {
   throw new StatementFailure(message, line, span?.start.column ?? fallback);
@@ -140,25 +144,35 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
   const structural = formFromPoly(poly, vars);
   checkDeadline();
 
+  // Exact first: entries rational in at most one real parameter (after scaling) are decided on the whole domain.
+  const exactForm = symbolic || (n <= 3 && exactEntries(structural, split.prefactor)) ? exactFormOf(structural) : null;
+  const onLine = exactForm ? analyzeOnLine(exactForm, domains) : null;
+  checkDeadline();
+  if (exactForm && onLine) {
+    try {
+      return evaluateIntegralExactly({ name, line, vars, params, domains, structural, prefactor: split.prefactor, integrand: s.integrand, form: exactForm, analysis: onLine }, ctx, report);
+    } catch (e) {
+      if (e instanceof NonFiniteValue) fail(`${e.message} Write the large factor separately (for example with let) or change the parameters.`, line, s.span, 1);
+      throw e;
+    }
+  }
+
   // Numbers first: every verdict below is decided from these.
   const analyses: PointAnalysis[] = points.map((p) => { checkDeadline(); return analyzeAt(numericForm(structural, split.prefactor, p)); });
 
   // The record shows the adapter's exact derivatives when they agree with the expansion.
   let display: QuadraticForm;
-  let derivNote = 'read off by expanding the exponent';
+  let source: 'derivatives' | 'expansion' | 'numbers' = 'numbers';
   if (symbolic) {
     const d = derivativeForm(split.exponent, structural, idPoints);
     display = d.agreed ? d.form : simplifyDisplay(structural, idPoints);
-    derivNote = d.agreed
-      ? 'by exact differentiation (A = -d^2S/dx dx, J = dS/dx, c = S at x = 0), confirmed against the term-by-term expansion'
-      : 'from the term-by-term expansion (the algebra package\'s derivatives disagreed with it at sample points and were not used)';
+    source = d.agreed ? 'derivatives' : 'expansion';
   } else {
     display = numericDisplay(structural);
   }
   report.steps.push({
-    kind: 'quadratic-form',
-    text: `The exponent is S = -1/2 x^T A x + J^T x + c in x = (${vars.join(', ')}), with A = ${matrixText(display.A)}, J = ${vectorText(display.J)}, c = ${toText(tidy(display.c))}, ${derivNote}.`,
-    latex: `A = ${matrixLatex(display.A)},\\quad J = ${vectorLatex(display.J)},\\quad c = ${toLatex(tidy(display.c))}`,
+    kind: 'quadratic-form', vars, source, rotated: false,
+    A: display.A.map((r) => r.map(formulaOf)), J: display.J.map(formulaOf), c: formulaOf(display.c),
   });
 
   // Convergence.
@@ -171,36 +185,23 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
   if (proof && count(proof.kind) === analyses.length) {
     convergence = proof.kind; proofKind = 'proved';
     report.steps.push({
-      kind: 'convergence', text: `${proof.kind[0]!.toUpperCase()}${proof.kind.slice(1)}, proved: ${proof.reason}`,
-      latex: proof.kind === 'absolute'
-        ? `\\operatorname{Re} A \\succ 0:\\quad ${proof.minors.map((m, k) => `\\Delta_{${k + 1}} = ${toLatex(tidy(m))}`).join(',\\ ')}`
-        : proof.kind === 'oscillatory' ? `\\operatorname{Re} A = 0,\\quad \\det(\\operatorname{Im} A) = ${toLatex(tidy(proof.detB))} \\neq 0`
-        : `\\operatorname{Re} A \\not\\succeq 0`,
+      kind: 'convergence', verdict: proof.kind, basis: { kind: 'proved' },
+      reason: proof.kind === 'absolute' ? 'sylvester' : proof.kind === 'oscillatory' ? 'i-epsilon' : 'diagonal',
+      minors: proof.kind === 'absolute' ? proof.minors.map(formulaOf) : [],
+      realEigenvalues: [], regions: [], boundaries: [], counts: {},
       ...(proof.kind === 'divergent' ? { direction: proof.direction } : {}),
-      samples: { count: analyses.length, agreeing: analyses.length },
     });
   } else if (!symbolic) {
     convergence = first.verdict.kind; proofKind = 'proved';
     const ev = first.verdict.realEigenvalues;
-    const words = {
-      absolute: 'Absolutely convergent: every eigenvalue of Re A is positive',
-      oscillatory: 'Oscillatory: Re A is only semidefinite and Im A is nondegenerate on its kernel, so the integral is defined as the limit of A + epsilon*I as epsilon -> 0+ (the i*epsilon prescription)',
-      divergent: first.verdict.kind === 'divergent' && first.verdict.grows
-        ? 'Divergent: Re A has a negative eigenvalue, so the integrand grows along its eigenvector'
-        : 'Divergent: the exponent has no decaying part along the direction given, so the integrand does not decay',
-    }[convergence];
     const cholesky = first.verdict.kind === 'absolute' ? first.verdict.smallestCholeskyPivot : undefined;
-    if (cholesky !== undefined) {
-      report.steps.push({
-        kind: 'convergence',
-        text: `Absolutely convergent: Re A is positive definite, since its Cholesky factorization succeeds with every pivot positive (smallest ${fmt(cholesky)}; decided numerically in double precision; with ${n} variables the eigenvalues are not computed).`,
-        latex: '\\operatorname{Re} A \\succ 0',
-      });
-    } else report.steps.push({
-      kind: 'convergence',
-      text: `${words} (eigenvalues of Re A: ${ev.map((x) => fmt(x)).join(', ')}; decided numerically in double precision)${first.verdict.kind === 'divergent' ? `; direction x = (${first.verdict.direction.join(', ')})` : ''}.`,
-      latex: `\\operatorname{spec}(\\operatorname{Re} A) = \\{${ev.map((x) => fmt(x)).join(',\\ ')}\\}`,
-      realEigenvalues: ev,
+    const reason = cholesky !== undefined ? 'cholesky'
+      : first.verdict.kind === 'oscillatory' ? 'i-epsilon'
+      : first.verdict.kind === 'divergent' ? (first.verdict.grows ? 'grows' : 'no-decay') : 'eigenvalues';
+    report.steps.push({
+      kind: 'convergence', verdict: convergence, reason, basis: { kind: 'numeric' },
+      minors: [], realEigenvalues: ev, regions: [], boundaries: [], counts: {},
+      ...(cholesky !== undefined ? { smallestPivot: cholesky } : {}),
       ...(first.verdict.kind === 'divergent' ? { direction: first.verdict.direction } : {}),
     });
   } else {
@@ -210,10 +211,8 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
       convergence = kindsSeen[0]!;
       const div = first.verdict.kind === 'divergent' ? first.verdict : null;
       report.steps.push({
-        kind: 'convergence',
-        text: `${convergence[0]!.toUpperCase()}${convergence.slice(1)} at all ${analyses.length} sampled parameter points (checked at ${analyses.length} points, not proved)${convergence === 'oscillatory' ? '; defined as the limit of A + epsilon*I as epsilon -> 0+ (the i*epsilon prescription)' : ''}${div ? `; at ${describePoint(points[0]!)} the integrand ${div.grows ? 'grows' : 'does not decay'} along the direction (${div.direction.join(', ')})` : ''}.`,
-        latex: convergence === 'absolute' ? '\\operatorname{Re} A \\succ 0' : convergence === 'oscillatory' ? '\\operatorname{Re} A \\succeq 0' : '\\operatorname{Re} A \\not\\succ 0',
-        samples: { count: analyses.length, agreeing: analyses.length },
+        kind: 'convergence', verdict: convergence, reason: 'sampled', basis: sampledBasis(domains, params, analyses.length),
+        minors: [], realEigenvalues: [], regions: [], boundaries: [], counts: {},
         ...(div ? { direction: div.direction, at: pointRecord(points[0]!) } : {}),
       });
     } else {
@@ -221,10 +220,10 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
       const bad = analyses.findIndex((a) => a.verdict.kind === 'divergent');
       const badVerdict = bad >= 0 ? analyses[bad]!.verdict : null;
       report.steps.push({
-        kind: 'convergence',
-        text: `The verdict changes inside the declared domains: ${kindsSeen.map((k) => `${k} at ${count(k)}`).join(', ')} of ${analyses.length} sampled points${bad >= 0 ? `; for example at ${describePoint(points[bad]!)} it diverges along (${badVerdict?.kind === 'divergent' ? badVerdict.direction.join(', ') : ''})` : ''}. The closed form below holds only where the integral converges.`,
-        latex: '\\text{convergence depends on the parameters}',
-        samples: { count: analyses.length, agreeing: analyses.length - (bad >= 0 ? count('divergent') : 0) },
+        kind: 'convergence', verdict: 'unknown', reason: 'sampled',
+        basis: sampledBasis(domains, params, analyses.length, analyses.length - (bad >= 0 ? count('divergent') : 0)),
+        minors: [], realEigenvalues: [], regions: [], boundaries: [],
+        counts: Object.fromEntries(kindsSeen.map((k) => [k, count(k)])),
         ...(badVerdict?.kind === 'divergent' ? { direction: badVerdict.direction, at: pointRecord(points[bad]!) } : {}),
       });
     }
@@ -234,7 +233,7 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
 
   const good = analyses.map((a, k) => ({ a, p: points[k]! })).filter((x) => x.a.branch && x.a.value);
   if (convergence === 'divergent' || good.length === 0) {
-    report.steps.push({ kind: 'result', text: 'The integral diverges: no value.', latex: '\\text{divergent}' });
+    report.steps.push({ kind: 'result', name, formula: null, written: 'none', verified: true, basis: { kind: 'proved' }, value: null, pieces: [] });
     ctx.results.set(name, { line, unavailable: `${name} (line ${line}) diverges and has no value`, expr: null, params, valueAt: null });
     return report;
   }
@@ -246,42 +245,21 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
   const decisive = good.find((x) => x.a.branch!.principalSign === -1) ?? good[0]!;
   const bd = decisive.a.branch!;
   const pivotsDisagree = good.filter((x) => x.a.branch!.pivotsAgree === false).length;
-  const eigText = bd.eigenvalues.map((z) => `${complexText(z, 5)} (arg ${piMultiple(Math.atan2(z.im, z.re))})`).join(', ');
   const provedPrincipal = n === 1 || (n === 2 && convergence === 'absolute' && proofKind === 'proved');
-  let reason: string;
   const byPivotsOnly = bd.eigenvalues.length === 0;
-  if (!symbolic && byPivotsOnly) {
-    // Large n with Re A > 0: the pivots alone decide (see gaussian/branchAt.ts).
-    const where = b0.principalSign === 1
-      ? 'inside (-pi, pi], so the principal sqrt(det A) is that product'
-      : 'outside (-pi, pi], so the principal sqrt(det A) has the wrong sign: det(A)^(-1/2) = -1/sqrt(det A)';
-    reason = `Re A > 0, so every L D L^T pivot of A has positive real part and det(A)^(1/2) is the product of the pivots' principal roots; the pivots' arguments sum to ${piMultiple(b0.argumentSum)}, ${where}.`;
-  } else if (!symbolic) {
-    reason = b0.principalSign === 1
-      ? `The eigenvalues of A are ${eigText}; their arguments sum to ${piMultiple(b0.argumentSum)}, inside (-pi, pi], so the principal sqrt(det A) is the product of the principal roots.`
-      : `The eigenvalues of A are ${eigText}; their arguments sum to ${piMultiple(b0.argumentSum)}, outside (-pi, pi], so the principal sqrt(det A) has the wrong sign: det(A)^(-1/2) = -1/sqrt(det A).`;
-  } else if (provedPrincipal && plus === signs.length) {
-    reason = n === 1
-      ? 'With one variable det A is the eigenvalue itself, in the closed right half plane, so its principal root is the continuous one.'
-      : 'With two variables and Re A > 0 both eigenvalue arguments lie in (-pi/2, pi/2), so their sum lies in (-pi, pi) and the principal sqrt(det A) is the product of the principal roots on the whole domain.';
-  } else if (plus === signs.length) {
-    reason = `The principal sqrt(det A) equals the product of principal roots of the eigenvalues at all ${signs.length} sampled points (checked, not proved).`;
-  } else if (plus === 0) {
-    reason = `The principal sqrt(det A) has the wrong sign at all ${signs.length} sampled points: det(A)^(-1/2) = -1/sqrt(det A) there (checked, not proved); for example at ${describePoint(decisive.p)} the eigenvalues are ${eigText}, arguments summing to ${piMultiple(bd.argumentSum)}.`;
-  } else {
-    reason = `The sheet changes inside the domain: the principal sqrt(det A) is right at ${plus} and wrong at ${signs.length - plus} of ${signs.length} sampled points${whereSigns(params, good.map((x) => x.p), signs)} (for example at ${describePoint(decisive.p)}, eigenvalues ${eigText}); the result is written with the product of the pivots' principal roots instead.`;
-  }
-  report.branch = { principalSqrtDetCorrect: plus === signs.length, reason };
+  const principal: 'right' | 'wrong' | 'piecewise' = plus === signs.length ? 'right' : plus === 0 ? 'wrong' : 'piecewise';
+  const rule = !symbolic ? (byPivotsOnly ? 'pivots' : 'eigenvalues')
+    : provedPrincipal && principal === 'right' ? (n === 1 ? 'one-variable' : 'two-variables') : 'sampled';
+  report.branch = { principalSqrtDetCorrect: principal === 'right', principal };
   report.steps.push({
-    kind: 'branch',
-    text: byPivotsOnly ? reason : `${reason} The L D L^T pivots give the same root${pivotsDisagree ? ` except at ${pivotsDisagree} point(s), where the eigenvalues were used` : ''}.`,
-    latex: byPivotsOnly
-      ? `\\det(A)^{1/2} = \\prod_k d_k^{1/2},\\quad \\sum_k \\arg d_k = ${fmt(bd.argumentSum / Math.PI, 4)}\\,\\pi`
-      : `\\det(A)^{1/2} = \\prod_k \\lambda_k^{1/2},\\quad \\sum_k \\arg \\lambda_k = ${fmt(bd.argumentSum / Math.PI, 4)}\\,\\pi`,
+    kind: 'branch', principal, rule,
+    basis: !symbolic ? { kind: 'numeric' } : rule === 'sampled' ? sampledBasis(domains, params, signs.length, plus) : { kind: 'proved' },
     eigenvalues: bd.eigenvalues.map(polar),
-    ...(bd.pivots ? { pivots: bd.pivots.map(polar) } : {}),
+    pivots: bd.pivots ? bd.pivots.map(polar) : [],
     argumentSum: bd.argumentSum,
-    ...(symbolic ? { samples: { count: signs.length, agreeing: plus }, at: pointRecord(decisive.p) } : {}),
+    pivotsAgree: byPivotsOnly ? null : pivotsDisagree === 0,
+    crossings: [], regions: [],
+    ...(symbolic ? { at: pointRecord(decisive.p) } : {}),
   });
 
   // Fresnel signature, when A = -iB with B real at every point.
@@ -300,12 +278,10 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
     if (s0 && sigs.every((s) => s && s.positive === s0.positive && s.negative === s0.negative)) {
       fresnel = { positive: s0.positive, negative: s0.negative };
       const sig = s0.positive - s0.negative;
+      void sig;
       report.steps.push({
-        kind: 'fresnel-phase',
-        text: `A = -iB with B real symmetric of signature (${s0.positive}, ${s0.negative}), sig B = ${sig}${symbolic ? ` at all ${sigs.length} sampled points (checked, not proved)` : ''}: det(A)^(-1/2) = |det B|^(-1/2) exp(i*pi*sig/4), phase ${quarterPhaseText(sig)}.`,
-        latex: `\\det(A)^{-1/2} = \\left|\\det B\\right|^{-1/2} e^{i\\pi \\operatorname{sig}(B)/4},\\quad \\operatorname{sig}(B) = ${sig}`,
-        realEigenvalues: s0.ev,
-        signature: fresnel,
+        kind: 'fresnel-phase', signature: fresnel, realEigenvalues: s0.ev,
+        basis: symbolic ? sampledBasis(domains, params, sigs.length) : { kind: 'numeric' },
       });
     }
   }
@@ -315,11 +291,7 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
     // Long decimal entries: a closed form would only restate the number, at great cost.
     const e = complexExpr(value!);
     report.result = { text: toText(e), latex: toLatex(e), value: { re: value!.re, im: value!.im } };
-    report.steps.push({
-      kind: 'result',
-      text: `${name} = ${complexText(value!, 15)}, from (2 pi)^(n/2) det(A)^(-1/2) exp(J^T A^-1 J / 2 + c) in double precision on the branch above.`,
-      latex: `${toLatex({ t: 'name', name })} = ${toLatex(e)}`,
-    });
+    report.steps.push({ kind: 'result', name, formula: formulaOf(e), written: 'numeric', verified: true, basis: { kind: 'numeric' }, value: { re: value!.re, im: value!.im }, pieces: [] });
     setResult(ctx, name, line, e, params, structural, split.prefactor, { integrand: s.integrand, vars, convergence });
     return report;
   }
@@ -329,19 +301,10 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
   });
   checkDeadline();
   report.result = { text: cf.text, latex: cf.latex, value: value && { re: value.re, im: value.im } };
-  const writtenWords = {
-    principal: 'with the principal square root of det A',
-    negated: 'as minus the principal form, as the branch requires',
-    pivots: 'with the principal roots of the L D L^T pivots (the continuous branch throughout)',
-    fresnel: 'in the Fresnel form |det B|^(-1/2) exp(i*pi*sig/4)',
-  }[cf.written];
   report.steps.push({
-    kind: 'result',
-    text: `${name} = ${cf.text}, written ${writtenWords}; ${cf.verified
-      ? `this form reproduces the continuous branch at ${symbolic ? `all ${good.length} sampled points` : 'the computed value'}`
-      : 'WARNING: no written form reproduced the continuous branch at every sampled point; treat it with care'}${value ? `; numerically ${complexText(value, 15)}` : ''}.`,
-    latex: `${toLatex({ t: 'name', name })} = ${cf.latex}`,
-    samples: { count: good.length, agreeing: cf.verified ? good.length : 0 },
+    kind: 'result', name, formula: { text: cf.text, latex: cf.latex }, written: cf.written, verified: cf.verified,
+    basis: symbolic ? sampledBasis(domains, params, good.length, cf.verified ? good.length : 0) : { kind: 'numeric' },
+    value: value ? { re: value.re, im: value.im } : null, pieces: [],
   });
   setResult(ctx, name, line, cf.expr, params, structural, split.prefactor, { integrand: s.integrand, vars, convergence });
   return report;

@@ -8,10 +8,10 @@ import type { Expr, Statement } from '../lang/ast.js';
 import { Complex } from 'complex.js';
 import { evaluate } from '../expr/evaluate.js';
 import { freeNames, substitute } from '../expr/names.js';
-import { toLatex, toText } from '../expr/print.js';
+import { formulaOf } from '../expr/print.js';
 import { tidy } from '../expr/tidy.js';
 import { rewriteChecked } from '../algebra/adapter.js';
-import { samplePoints, type Point } from '../domains/sample.js';
+import { sampledBasis, samplePoints, type Point } from '../domains/sample.js';
 import { complexText, piMultiple } from '../gaussian/describe.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 
@@ -75,20 +75,18 @@ export function evaluateLet(s: Extract<Statement, { kind: 'let' }>, ctx: Context
     const lo = Math.min(...argsOf); const hi = Math.max(...argsOf);
     const nearCut = argsOf.filter((a) => Math.abs(Math.abs(a) - Math.PI) < 0.1).length;
     report.steps.push({
-      kind: 'branch',
-      text: `${c.fn}(${toText(c.args[0]!)}) is taken on the principal branch (cut on the negative real axis; ${c.fn === 'log' ? 'imaginary part in (-pi, pi]' : 'real part >= 0'}): the argument of ${toText(c.args[0]!)} ${piMultiple(lo) === piMultiple(hi) ? `is ${piMultiple(lo)}` : `lies between ${piMultiple(lo)} and ${piMultiple(hi)}`} at ${args.length} sampled points${nearCut ? `; ${nearCut} of them lie within 0.1 rad of the cut, where a continuous branch could differ` : ', away from the cut'}.`,
-      latex: `\\${c.fn === 'log' ? 'log' : 'sqrt'}\\ \\text{principal},\\ \\arg \\in [${(lo / Math.PI).toFixed(3)}\\pi, ${(hi / Math.PI).toFixed(3)}\\pi]`,
-      samples: { count: args.length, agreeing: args.length - nearCut },
+      kind: 'branch', rule: 'principal-function', principal: nearCut ? 'unknown' : 'right',
+      basis: params.length ? sampledBasis(domainsOf(ctx, params), params, args.length, args.length - nearCut) : { kind: 'numeric' },
+      fn: c.fn === 'log' ? 'log' : 'sqrt', argument: formulaOf(c.args[0]!), argRange: [lo, hi], nearCut,
+      eigenvalues: [], pivots: [], pivotsAgree: null, crossings: [], regions: [],
     });
   }
   const value = params.length ? null : valueAt(new Map());
-  const text = formHolds ? toText(form) : toText(s.expr);
-  report.result = { text, latex: formHolds ? toLatex(form) : toLatex(s.expr), value };
+  const shown = formulaOf(formHolds ? form : s.expr);
+  report.result = { ...shown, value };
   report.steps.push({
-    kind: 'derived',
-    text: `${name} = ${toText(s.expr)}${formHolds ? ` = ${toText(form)}; this form reproduces the branch-faithful value at ${compared} ${params.length ? 'sampled points' : 'point'}` : resultsUsed.length ? '; no closed form reproduced the branch-faithful value at every sampled point, so the definition is kept as written' : ''}${value ? `; numerically ${complexText(value, 15)}` : ''}.`,
-    latex: `${name} = ${report.result.latex}`,
-    samples: { count: compared, agreeing: agree },
+    kind: 'derived', name, definition: formulaOf(s.expr), closed: formHolds ? formulaOf(form) : null,
+    compared, agreeing: agree, usesResults: resultsUsed.length > 0, value,
   });
   ctx.results.set(name, { line, unavailable: null, expr: formHolds ? form : null, params, valueAt });
   return report;

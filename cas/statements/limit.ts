@@ -11,10 +11,10 @@ import { Complex } from 'complex.js';
 import { div, mul, name as nameExpr, num, pow, sub, call } from '../expr/build.js';
 import { evaluate } from '../expr/evaluate.js';
 import { freeNames, substitute } from '../expr/names.js';
-import { toLatex, toText } from '../expr/print.js';
+import { formulaOf, toText } from '../expr/print.js';
 import { tidy, rational } from '../expr/tidy.js';
 import { limitOf, rewriteChecked } from '../algebra/adapter.js';
-import { describePoint, samplePoints, type Point } from '../domains/sample.js';
+import { sampledBasis, samplePoints, type Point } from '../domains/sample.js';
 import { complexText } from '../gaussian/describe.js';
 import { complexExpr } from '../expr/numberExpr.js';
 import { recognizeConstant } from '../expr/recognize.js';
@@ -62,16 +62,16 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
     const holds = candidate !== null && checked > 0 && worst < 1e-5;
     const numeric = at(pts[0]!, new Complex(v.re + dir * 1e-7, v.im));
     report.result = holds
-      ? { text: toText(candidate!), latex: toLatex(candidate!), value: freeNames(candidate!).size ? null : exprAt(candidate!, new Map()) }
-      : { text: numeric ? complexText(numeric, 10) : 'none', latex: numeric ? complexText(numeric, 10) : '\\text{none}', value: numeric };
+      ? { ...formulaOf(candidate!), value: freeNames(candidate!).size ? null : exprAt(candidate!, new Map()) }
+      : { text: 'unknown', latex: '\\text{unknown}', value: null };
     report.steps.push({
-      kind: 'limit',
-      text: holds
-        ? `lim ${pn} -> ${toText(to)} of ${name} = ${toText(candidate!)}, by ${how}; checked numerically at ${pn} = ${toText(to)} ${dir > 0 ? '+' : '-'} 1e-7 for ${checked} value${checked > 1 ? 's' : ''} of the other parameters (largest relative difference ${worst.toExponential(2)}).`
-        : `No closed form for the limit was confirmed; numerically ${name} tends to about ${numeric ? complexText(numeric, 10) : 'no finite value'}${others.length ? ` at ${describePoint(pts[0]!)}` : ''} (checked numerically only).`,
-      latex: `\\lim_{${pn} \\to ${toLatex(to)}} ${name} = ${report.result.latex}`,
-      samples: { count: checked, agreeing: holds ? checked : 0 },
-      relativeError: worst,
+      kind: 'limit', name, param: pn, to: formulaOf(to),
+      outcome: holds ? 'value' : 'unknown',
+      formula: holds ? formulaOf(candidate!) : null,
+      value: holds ? report.result.value : numeric,
+      method: holds ? (how.startsWith('substituting') ? 'substitution' : 'algebra-limit') : 'none',
+      basis: others.length ? sampledBasis(domainsOf(ctx, others), others, checked, holds ? checked : 0) : { kind: 'numeric' },
+      checks: { count: checked, worst },
     });
     return report;
   }
@@ -93,14 +93,16 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
   const d0 = { re: vals[1]!.re - vals[0]!.re, im: vals[1]!.im - vals[0]!.im };
   const logLike = Math.abs(alpha) < 1e-3 && Math.hypot(d1.re, d1.im) > 1e-9 * mag[2]! && rd(d1, d0) < 1e-3;
   const P = nameExpr(pn);
-  let lead: Expr; let leadText: string; let correction = '';
-  let checkedWords = 'checked numerically';
+  let lead: Expr; let leadText: string;
+  let method: 'algebra-limit' | 'recognised' | 'read-off' = 'read-off';
+  let correctionStep: { formula: { text: string; latex: string } | null; power: number } | null = null;
+  let constantTerm: { re: number; im: number } | null = null;
   if (logLike) {
     const a = { re: d1.re / Math.log(10), im: d1.im / Math.log(10) };
     const b = { re: vals[2]!.re - a.re * Math.log(x2), im: vals[2]!.im - a.im * Math.log(x2) };
     lead = tidy(mul(complexExpr(a), call('log', P)));
     leadText = `${toText(lead)} + ${complexText(b, 10)}`;
-    correction = `; the constant term is about ${complexText(b, 10)} at ${others.length ? describePoint(p0) : 'these values'}`;
+    constantTerm = b;
   } else {
     const power = alpha === 0 ? num(1) : pow(P, complexExpr({ re: alpha, im: 0 }));
     // C from the algebra package where it gives one, else numerically
@@ -114,7 +116,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
         const cValue = freeNames(C).size === 0 ? exprAt(C, p0) : null;
         const simple = cValue && recognizeConstant(cValue, 1e-12);
         if (simple) C = simple;
-        checkedWords = `the constant from the algebra package's limit, checked numerically at ${pn} = 1e7 for ${pts.length} value${pts.length > 1 ? 's' : ''} of the other parameters`;
+        method = 'algebra-limit';
       }
     }
     if (!C) {
@@ -131,10 +133,10 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
       });
       if (guess && holds) {
         C = guess;
-        checkedWords = `the constant recognised as ${toText(guess)} from its value at ${pn} = 1e6 and confirmed at ${pn} = 1e7 for ${pts.length} value${pts.length > 1 ? 's' : ''} of the other parameters (checked, not proved)`;
+        method = 'recognised';
       } else {
         C = complexExpr(readOff);
-        checkedWords = `the constant read off at ${pn} = 1e6 (checked numerically only)${others.length ? ` at ${describePoint(p0)}` : ''}`;
+        method = 'read-off';
       }
     }
     lead = tidy(mul(C, power));
@@ -148,16 +150,21 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
         const b = bp / bq;
         const l2 = limitOf(div(sub(r.expr, lead), pow(P, complexExpr({ re: b, im: 0 }))), pn, 'inf');
         const ok = l2 && pts.every((p) => { const c = exprAt(l2, p); const q = new Map(p); q.set(pn, new Complex(1e3, 0)); const w = r.valueAt(q); const L = exprAt(lead, q); return c && w && L && rd({ re: (w.re - L.re) / 1e3 ** b, im: (w.im - L.im) / 1e3 ** b }, c) < 1e-3; });
-        if (ok) correction = `; next correction ${toText(tidy(mul(tidy(rewriteChecked('simplify', l2!, pts).expr), pow(P, complexExpr({ re: b, im: 0 })))))} (from the algebra package's limit, checked numerically at ${pn} = 1000)`;
-        else correction = `; the next correction falls off like ${pn}^(${Number(b.toPrecision(4))}) (checked numerically only)`;
+        correctionStep = ok
+          ? { formula: formulaOf(mul(tidy(rewriteChecked('simplify', l2!, pts).expr), pow(P, complexExpr({ re: b, im: 0 })))), power: b }
+          : { formula: null, power: b };
       }
     }
   }
-  report.result = { text: leadText, latex: toLatex(lead), value: null };
+  report.result = { ...formulaOf(lead), value: null };
   report.steps.push({
-    kind: 'limit',
-    text: `As ${pn} -> ${s.to}, ${name} ~ ${leadText}${logLike ? ' (logarithmic growth, read off values at large ' + pn + '; checked numerically only)' : ` (the power ${pn}^(${Number(alpha.toPrecision(6))}) read off values at ${pn} = 1e4, 1e5, 1e6; ${checkedWords})`}${correction}.`,
-    latex: `${name} \\sim ${toLatex(lead)}\\quad (${pn} \\to ${s.to === 'inf' ? '\\infty' : '-\\infty'})`,
+    kind: 'limit', name, param: pn, to: { text: s.to, latex: s.to === 'inf' ? '\\infty' : '-\\infty' },
+    outcome: 'asymptotic', formula: formulaOf(lead), value: null,
+    method: logLike ? 'logarithmic' : method,
+    basis: others.length ? sampledBasis(domainsOf(ctx, others), others, pts.length) : { kind: 'numeric' },
+    power: alpha,
+    ...(correctionStep ? { correction: correctionStep } : {}),
+    ...(constantTerm ? { constantTerm } : {}),
   });
   return report;
 }

@@ -5,6 +5,6 @@ import { blankReport } from './context.js';
 
 export function evaluateNote(s: Extract<Statement, { kind: 'note' }>): StatementReport {
   const report = blankReport(s.span.start.line, 'note', null);
-  report.steps.push({ kind: 'note', text: s.text, latex: `\\text{${s.text.replace(/[\\{}$&#^_%~]/g, (c) => `\\${c}`)}}` });
+  report.steps.push({ kind: 'note', text: s.text });
   return report;
 }

@@ -3,11 +3,6 @@ import type { StatementReport } from '../../shared/evaluation.js';
 import type { Statement } from '../lang/ast.js';
 import { blankReport, StatementFailure, type Context } from './context.js';
 
-const DOMAIN_WORDS = {
-  positive: 'a positive real number', negative: 'a negative real number', real: 'a real number',
-  complex: 'a complex number', nonzero: 'a nonzero real number',
-} as const;
-
 export function evaluateParam(s: Extract<Statement, { kind: 'param' }>, ctx: Context): StatementReport {
   const line = s.span.start.line;
   for (const n of s.names) {
@@ -18,10 +13,6 @@ export function evaluateParam(s: Extract<Statement, { kind: 'param' }>, ctx: Con
   for (const n of s.names) ctx.params.set(n.name, { domain: s.domain, line });
   const names = s.names.map((n) => n.name);
   const report = blankReport(line, 'param', names.join(', '));
-  report.steps.push({
-    kind: 'param',
-    text: `${names.join(', ')} ${names.length > 1 ? 'are' : 'is'} ${DOMAIN_WORDS[s.domain]}.`,
-    latex: `${names.join(', ')} \\in ${{ positive: '(0, \\infty)', negative: '(-\\infty, 0)', real: '\\mathbb{R}', complex: '\\mathbb{C}', nonzero: '\\mathbb{R} \\setminus \\{0\\}' }[s.domain]}`,
-  });
+  report.steps.push({ kind: 'param', names, domain: s.domain });
   return report;
 }

@@ -5,24 +5,30 @@
  * coupling's argument; several: on a grid of angles with bisection at the first bad one. A legal rotation
  * gives a new result: Jacobian, new coupling, closed form and convergence, through the integral path.
  */
-import type { Step, StatementReport } from '../../shared/evaluation.js';
+import type { Domain, Step, StatementReport } from '../../shared/evaluation.js';
+import type { RatFunc } from '../exact/ratfunc.js';
 import type { DiagramData } from '../../shared/diagram.js';
 import type { Expr, Statement } from '../lang/ast.js';
-import { call, I, mul, neg, num } from '../expr/build.js';
+import { add, call, div, I, mul, neg, num, PI } from '../expr/build.js';
 import { evaluate } from '../expr/evaluate.js';
 import { freeNames, substitute } from '../expr/names.js';
 import { parseExpression } from '../lang/parse.js';
-import { toLatex, toText } from '../expr/print.js';
+import { formulaOf, toText } from '../expr/print.js';
 import { Complex } from 'complex.js';
-import { describePoint, pointRecord, samplePoints, type Point } from '../domains/sample.js';
+import { pointRecord, sampledBasis, samplePoints, type Point } from '../domains/sample.js';
 import { numericForm } from '../gaussian/numericModel.js';
 import { symEig } from '../numeric/symeig.js';
 import { eigenvalues } from '../numeric/eigen.js';
 import { polar } from '../gaussian/describe.js';
 import { checkDeadline } from '../deadline.js';
 import { blankReport, domainsOf, StatementFailure, type Context, type GaussianInfo } from './context.js';
+import { endContourCondition, exactAngleOf, angleExpr, type ExactAngle } from '../verdicts/rotationExact.js';
+import { fromExpr } from '../exact/ratfunc.js';
+import { rfIm } from '../verdicts/exactGaussian.js';
+import { cellsOf, signOn } from '../verdicts/line.js';
+import { upolyFromPoly } from '../exact/univariate.js';
 import { evaluateIntegral } from './integral.js';
-import { angleText, PRINCIPAL_CUT, resultNamed, unitLine } from './shared.js';
+import { angleFormula, angleText, PRINCIPAL_CUT, resultNamed, unitLine } from './shared.js';
 
 const GRID = 720;
 const SAMPLES = 16;
@@ -90,7 +96,10 @@ function sweep(g: GaussianInfo, points: readonly Point[], angles: readonly numbe
 export function evaluateRotate(s: Extract<Statement, { kind: 'rotate' }>, ctx: Context): StatementReport {
   const line = s.span.start.line;
   const report = blankReport(line, 'rotate', s.as.name);
-  const result = resultNamed(ctx, s.target, line, 'rotation');
+  // A Gaussian that diverges on the real contour can still be rotated: the rotated contour then defines it.
+  const entry = ctx.results.get(s.target.name);
+  const divergentTarget = !!entry?.gaussian && entry.unavailable !== null && entry.gaussian.convergence === 'divergent';
+  const result = divergentTarget ? entry! : resultNamed(ctx, s.target, line, 'rotation');
   const g = result.gaussian;
   if (!g) throw new StatementFailure(`${s.target.name} is a derived quantity, not an integral; only integrals can be rotated.`, line, s.target.span.start.column);
   if (ctx.params.has(s.as.name) || ctx.results.has(s.as.name)) throw new StatementFailure(`The name ${s.as.name} is already in use; give the rotated result a new name.`, line, s.as.span.start.column);
@@ -98,7 +107,8 @@ export function evaluateRotate(s: Extract<Statement, { kind: 'rotate' }>, ctx: C
   const points = params.length ? samplePoints(domainsOf(ctx, params), params, SAMPLES) : [new Map()];
   const n = g.vars.length;
   const angles = new Array<number>(n).fill(0);
-  const words: string[] = [];
+  const exactAngles: (ExactAngle | null)[] = new Array(n).fill(null);
+  const moves: { variable: string; angle: { text: string; latex: string }; radians: number; wick: boolean; steepest: boolean }[] = [];
   let steepest = false;
   let wick = false;
   for (const m of s.moves) {
@@ -111,7 +121,7 @@ export function evaluateRotate(s: Extract<Statement, { kind: 'rotate' }>, ctx: C
       }
       angles[j] = thetas[0]!;
       steepest = true;
-      words.push(`${m.variable.name} -> exp(i*(${angleText(angles[j]!)}))*${m.variable.name}, the steepest-descent direction (where the coupling of ${m.variable.name} becomes real and positive)`);
+      moves.push({ variable: m.variable.name, angle: angleFormula(angles[j]!), radians: angles[j]!, wick: false, steepest: true });
       continue;
     }
     const other = [...freeNames(m.to).keys()].filter((x) => x !== m.variable.name);
@@ -120,66 +130,100 @@ export function evaluateRotate(s: Extract<Statement, { kind: 'rotate' }>, ctx: C
     const u = at(1);
     if (at(2).sub(u.mul(2)).abs() > 1e-12 || at(0).abs() > 1e-12) throw new StatementFailure(`A rotation is written ${m.variable.name} -> FACTOR*${m.variable.name}, for example ${m.variable.name} -> exp(i*pi/4)*${m.variable.name}.`, line, m.variable.span.start.column);
     if (Math.abs(u.abs() - 1) > 1e-12) throw new StatementFailure(`The factor ${toText(m.to)} has modulus ${Number(u.abs().toPrecision(6))}, not 1: that is not a rotation.`, line, m.variable.span.start.column);
-    angles[j] = Math.atan2(u.im, u.re);
+    // the angle as written, kept exact where it is q*pi + r (pi/4 + 0.0005 stays pi/4 + 1/2000)
+    const exact = exactAngleOf(m.to, m.variable.name);
+    exactAngles[j] = exact;
+    angles[j] = exact ? exact.radians : Math.atan2(u.im, u.re);
     const isWick = Math.abs(u.re) < 1e-15 && Math.abs(u.im + 1) < 1e-15;
     wick ||= isWick;
-    words.push(`${m.variable.name} -> exp(i*(${angleText(angles[j]!)}))*${m.variable.name}${isWick ? `, the Wick rotation ${m.variable.name} = -i*tau of a time variable` : ''}`);
+    moves.push({ variable: m.variable.name, angle: exact ? formulaOf(exact.expr) : angleFormula(angles[j]!), radians: angles[j]!, wick: isWick, steepest: false });
   }
-  const sw = sweep(g, points, angles);
-  const rotated = angles.map((a, k) => ({ a, v: g.vars[k]! })).filter((x) => x.a !== 0);
+  const rotated = angles.map((a, k) => ({ a, v: g.vars[k]!, exact: exactAngles[k] ?? null })).filter((x) => x.a !== 0);
   const primary = rotated[0]?.a ?? 0;
-  report.legal = sw.legal;
-  report.steps.push({
-    kind: 'rotation',
-    text: `${wick ? 'Wick rotation: ' : steepest ? 'Rotation onto the steepest-descent direction: ' : 'Rotation: '}${words.join('; ')}. The swept family is x_j -> exp(i*t*theta_j)*x_j for t from 0 to 1.`,
-    latex: rotated.map((x) => `${x.v} \\to e^{i ${toLatex(parseOrNum(angleText(x.a)))}}\\, ${x.v}`).join(',\\ '),
-    angles: { method: sw.method, count: sw.count, values: Object.fromEntries(rotated.map((x) => [x.v, x.a])), firstBad: sw.firstBad === null ? null : sw.firstBad },
-  });
-  const sampledWords = params.length ? ` at each of ${points.length} sampled parameter points (checked at ${points.length} points, not proved for the whole domain)` : '';
-  const legalityText = sw.method === 'exact'
-    ? `decided exactly from the argument of the coupling${sampledWords}`
-    : `checked on a grid of ${GRID + 1} angles of the sweep${sampledWords}${sw.legal ? '' : ', the first bad angle located by bisection'}`;
+  report.steps.push({ kind: 'rotation', moves });
+  /** e^(i theta) of a rotated variable, exact where the angle is. */
+  const unitOf = (x: (typeof rotated)[number]): Expr => (x.exact ? unitFromExact(x.exact) : unitExpr(x.a));
+  const jacobian = (): Expr => rotated.reduce<Expr>((j, x) => mul(j, unitOf(x)), num(1));
+  const totalAngle = () => (rotated.every((x) => x.exact)
+    ? formulaOf(rotated.reduce<Expr | null>((t, x) => (t ? add(t, x.exact!.expr) : x.exact!.expr), null) ?? num(0))
+    : angleFormula(angles.reduce((a, b) => a + b, 0)));
+  /** The integral over real y of the Jacobian times the integrand at x = D y; on a copy of the context when only trying. */
+  const rotatedIntegral = (commit: boolean): StatementReport => {
+    const map = new Map<string, Expr>();
+    for (const x of rotated) map.set(x.v, mul(unitOf(x), { t: 'name', name: x.v }));
+    const integrand = mul(jacobian(), substitute(g.integrand, map));
+    const into = commit ? ctx : { params: ctx.params, results: new Map(ctx.results) };
+    return evaluateIntegral({ kind: 'integral', name: s.as, integrand, vars: g.vars.map((v) => ({ name: v, span: s.span })), span: s.span }, into);
+  };
+  const domains = domainsOf(ctx, params);
+  const sampled = params.length ? sampledBasis(domains, params, points.length) : null;
   const diagram: DiagramData = {
     contours: [{ label: 'Real contour', role: 'real', points: unitLine(0) }],
-    sectors: rotated.map((x) => ({ label: `Swept sector of ${x.v}`, from: 0, to: x.a, allowed: sw.legal })),
-    cuts: [PRINCIPAL_CUT], paths: [], tracks: [], eigenvalues: [],
+    sectors: [], cuts: [PRINCIPAL_CUT], paths: [], tracks: [], eigenvalues: [],
   };
-  if (!sw.legal) {
-    const phi = rotated.map((x) => `${x.v} at ${angleText(sw.firstBad! * (n === 1 ? 1 : x.a))}`).join(', ');
-    const atWords = sw.at && sw.at.size ? ` (at ${describePoint(sw.at)})` : '';
-    const dirWords = n === 1
-      ? `along the rotated contour ${g.vars[0]} = exp(i*phi)*y, y real, for phi just beyond ${angleText(sw.firstBad!)}`
-      : `along the real direction y = (${sw.direction!.join(', ')}) of the contour x_j = exp(i*t*theta_j)*y_j just beyond t = ${Number(sw.firstBad!.toPrecision(6))}`;
-    const first = n === 1 ? angleText(sw.firstBad!) : `t = ${Number(sw.firstBad!.toPrecision(6))} of the sweep (${phi})`;
-    report.steps.push({
-      kind: 'legality',
-      text: `Not allowed: the integrand grows on the swept family, first at ${first}${atWords}, ${dirWords}; ${legalityText}. No rotated result.`,
-      latex: '\\operatorname{Re}\\left(D A D\\right) \\not\\succeq 0',
-      ...(sw.direction ? { direction: sw.direction } : {}),
-      ...(sw.at && sw.at.size ? { at: pointRecord(sw.at) } : {}),
-    });
+  const refuse = () => {
+    report.legal = false;
+    diagram.sectors = rotated.map((x) => ({ label: `Swept sector of ${x.v}`, from: 0, to: x.a, allowed: false }));
     report.diagram = diagram;
     ctx.results.set(s.as.name, { line, unavailable: `${s.as.name} (line ${line}), whose rotation is not allowed`, expr: null, params, valueAt: null });
     return report;
+  };
+  const base = { kind: 'legality' as const, count: 0, vars: rotated.map((x) => x.v), regions: [], defines: false };
+  // One variable with an exact angle and a coupling of degree <= 1 in its parameter: decided exactly.
+  // (without a parameter the argument of the coupling decides exactly in the sweep below, with the first bad angle)
+  const oneVar = n === 1 && exactAngles[0] ? oneVariableCoupling(g, params, domains) : null;
+  const range = n === 1 ? legalRange(g, params, domains, divergentTarget) : undefined;
+  if (divergentTarget) {
+    // nothing to sweep from: the rotated contour defines the integral where it converges
+    const trial = rotatedIntegral(false);
+    const legal = trial.convergence === 'absolute' || trial.convergence === 'oscillatory';
+    report.steps.push({ ...base, legal, method: 'exact', basis: trial.proof === 'proved' ? { kind: 'proved' } : sampled ?? { kind: 'numeric' }, defines: true, ...(range ? { range } : {}) });
+    if (!legal) return refuse();
+  } else if (oneVar?.param && oneVariableConvergentEverywhere(ctx, s.target.name)) {
+    const cond = endContourCondition(oneVar.a, exactAngles[0]!, oneVar.param, oneVar.lo, oneVar.hi);
+    if (cond?.kind === 'everywhere') {
+      report.steps.push({ ...base, legal: true, method: 'exact', basis: { kind: 'proved' }, ...(range ? { range } : {}) });
+    } else if (cond?.threshold) {
+      const t = cond.threshold;
+      const good = { text: `${t.param} ${t.above ? '>=' : '<='} ${t.value.text} (${t.value.text} ≈ ${Number(t.approx.toPrecision(12))})`, latex: `${t.param} ${t.above ? '\\ge' : '\\le'} ${t.value.latex}` };
+      const bad = { text: `${t.param} ${t.above ? '<' : '>'} ${t.value.text}`, latex: `${t.param} ${t.above ? '<' : '>'} ${t.value.latex}` };
+      report.steps.push({ ...base, legal: false, method: 'exact', basis: { kind: 'proved' }, regions: [{ condition: good, holds: true }, { condition: bad, holds: false }], ...(range ? { range } : {}) });
+      return refuse();
+    } else {
+      const verdict = sweepVerdict();
+      if (!verdict) return refuse();
+    }
+  } else {
+    const verdict = sweepVerdict();
+    if (!verdict) return refuse();
   }
-  report.steps.push({
-    kind: 'legality',
-    text: `Allowed: Re(D A D) stays positive semidefinite on every contour of the swept family, so the integrand does not grow and the arcs at infinity do not contribute; ${legalityText}.`,
-    latex: '\\operatorname{Re}\\left(D(t) A D(t)\\right) \\succeq 0,\\ t \\in [0, 1]',
-  });
+  report.legal = true;
+  diagram.sectors = rotated.map((x) => ({ label: `Swept sector of ${x.v}`, from: 0, to: x.a, allowed: true }));
+
+  /** The swept family checked on a grid (several variables) or exactly from the coupling's argument at sampled points. */
+  function sweepVerdict(): boolean {
+    const sw = sweep(g!, points, angles);
+    const basis = sampled ?? { kind: sw.method === 'exact' ? 'proved' as const : 'numeric' as const };
+    if (!sw.legal) {
+      report.steps.push({
+        ...base, legal: false, method: sw.method, count: sw.count, basis,
+        firstBad: n === 1
+          ? { angle: angleFormula(sw.firstBad!), perVariable: {} }
+          : { t: sw.firstBad!, perVariable: Object.fromEntries(rotated.map((x) => [x.v, angleFormula(sw.firstBad! * x.a)])) },
+        ...(sw.direction ? { direction: sw.direction } : {}),
+        ...(sw.at && sw.at.size ? { at: pointRecord(sw.at) } : {}),
+        ...(range ? { range } : {}),
+      });
+      return false;
+    }
+    report.steps.push({ ...base, legal: true, method: sw.method, count: sw.count, basis, ...(range ? { range } : {}) });
+    return true;
+  }
   // The rotated integral over real y: Jacobian times the integrand at x = D y.
-  const map = new Map<string, Expr>();
-  let jac: Expr = num(1);
-  for (const x of rotated) { const u = unitExpr(x.a); map.set(x.v, mul(u, { t: 'name', name: x.v })); jac = mul(jac, u); }
-  const unit = (angles.reduce((a, b) => a + b, 0));
-  report.steps.push({
-    kind: 'jacobian',
-    text: `Jacobian dx = ${toText(jac)} dy (exp(i*(${angleText(unit)})), the product of the rotation factors).`,
-    latex: `dx = ${toLatex(jac)}\\, dy`,
-  });
-  const integrand = mul(jac, substitute(g.integrand, map));
-  const inner = evaluateIntegral({ kind: 'integral', name: s.as, integrand, vars: g.vars.map((v) => ({ name: v, span: s.span })), span: s.span }, ctx);
-  const steps: Step[] = inner.steps.map((st) => (st.kind === 'quadratic-form' ? { ...st, text: `New coupling: ${st.text}` } : st));
+  const jac = jacobian();
+  report.steps.push({ kind: 'jacobian', factor: formulaOf(jac), totalAngle: totalAngle() });
+  const inner = rotatedIntegral(true);
+  const steps: Step[] = inner.steps.map((st) => (st.kind === 'quadratic-form' ? { ...st, rotated: true } : st));
   report.steps.push(...steps);
   report.convergence = inner.convergence;
   report.proof = inner.proof;
@@ -201,7 +245,53 @@ export function evaluateRotate(s: Extract<Statement, { kind: 'rotate' }>, ctx: C
   return report;
 }
 
-function parseOrNum(t: string): Expr {
-  if (t.endsWith(' rad')) return num(t.slice(0, -4));
-  return parseExpression(t);
+/** e^(i theta) for theta = q*pi + r: 1, i, -1, -i exactly, else exp(i*(theta as written)). */
+function unitFromExact(a: ExactAngle): Expr {
+  if (a.r.n === 0n) {
+    const quarter = a.q.d === 1n ? Number(a.q.n) * 2 : a.q.d === 2n ? Number(a.q.n) : null;
+    if (quarter !== null) return [num(1), I, num(-1), neg(I)][((quarter % 4) + 4) % 4]!;
+  }
+  return call('exp', mul(I, a.expr));
+}
+
+/** The coupling of the one variable as an exact function of at most one real parameter, with that parameter's open range. */
+function oneVariableCoupling(g: GaussianInfo, params: readonly string[], domains: ReadonlyMap<string, Domain>): { a: RatFunc; param: string | null; lo: number; hi: number } | null {
+  const a = fromExpr(g.form.A[0]![0]!);
+  if (!a) return null;
+  const used = [...new Set([...polyVars(a.num), ...polyVars(a.den)])];
+  if (used.length > 1 || used.some((v) => v === 'pi' || domains.get(v) === 'complex' || !params.includes(v))) return null;
+  const param = used[0] ?? null;
+  const d = param ? domains.get(param)! : 'real';
+  return { a, param, lo: d === 'positive' ? 0 : -Infinity, hi: d === 'negative' ? 0 : Infinity };
+}
+
+/**
+ * The allowed angles of a one-variable rotation when the coupling's argument is the same on
+ * the whole domain (a real coupling of one sign): |theta| <= pi/4 for a positive one (the
+ * sweep), pi/4 < |theta| < 3*pi/4 for a negative one (the rotated contour defines it).
+ */
+function legalRange(g: GaussianInfo, params: readonly string[], domains: ReadonlyMap<string, Domain>, divergent: boolean): { text: string; latex: string } | undefined {
+  const c = oneVariableCoupling(g, params, domains);
+  if (!c || !rfIsZeroNum(rfIm(c.a))) return undefined;
+  let sign: number;
+  if (!c.param) sign = Math.sign(Number([...c.a.num.terms.values()][0]?.c.re.n ?? 0n));
+  else {
+    const num0 = upolyFromPoly(c.a.num); const den0 = upolyFromPoly(c.a.den);
+    if (!num0 || !den0) return undefined;
+    const signs = cellsOf([num0, den0], domains.get(c.param)!).filter((x) => x.kind === 'interval').map((x) => signOn(num0, x) * signOn(den0, x));
+    if (!signs.length || signs.some((x) => x !== signs[0])) return undefined;
+    sign = signs[0]!;
+  }
+  if (sign > 0 && !divergent) return { text: 'theta in [-pi/4, pi/4] (the swept family meets growth beyond)', latex: '\\theta \\in [-\\pi/4, \\pi/4]' };
+  if (sign < 0) return { text: 'theta in (pi/4, 3*pi/4) or (-3*pi/4, -pi/4), where the rotated contour converges', latex: '\\theta \\in (\\pi/4, 3\\pi/4) \\cup (-3\\pi/4, -\\pi/4)' };
+  return undefined;
+}
+const rfIsZeroNum = (r: RatFunc) => r.num.terms.size === 0;
+const polyVars = (p: RatFunc['num']) => [...new Set([...p.terms.values()].flatMap((t) => t.m.map(([v]) => v)))];
+void div; void PI; void angleExpr;
+
+/** The integral converges on the whole domain (so the sweep starts from a defined integral everywhere). */
+function oneVariableConvergentEverywhere(ctx: Context, name: string): boolean {
+  const c = ctx.results.get(name)?.gaussian?.convergence;
+  return c === 'absolute' || c === 'oscillatory';
 }

@@ -2,6 +2,9 @@
 import { Complex } from 'complex.js';
 import type { Binding, NameRef } from '../lang/ast.js';
 import { evaluate } from '../expr/evaluate.js';
+import { formulaOf } from '../expr/print.js';
+import { parseExpression } from '../lang/parse.js';
+import type { Formula } from '../../shared/evaluation.js';
 import { freeNames } from '../expr/names.js';
 import type { Point } from '../domains/sample.js';
 import { StatementFailure, type AvailableResult, type Context } from './context.js';
@@ -45,6 +48,13 @@ export function angleText(a: number): string {
     }
   }
   return `${Number(a.toPrecision(6))} rad`;
+}
+
+/** An angle for the record: a multiple of pi exactly where it is one, else its decimal marked as floating point. */
+export function angleFormula(a: number): Formula {
+  const t = angleText(a);
+  if (t.endsWith(' rad')) return { text: `≈ ${t.slice(0, -4)}`, latex: `\\approx ${t.slice(0, -4)}` };
+  return formulaOf(parseExpression(t));
 }
 
 export const rel = (a: { re: number; im: number }, b: { re: number; im: number }) =>

@@ -13,9 +13,9 @@ import { freeNames } from '../expr/names.js';
 import { splitIntegrand } from '../gaussian/integrand.js';
 import { integrateGaussian, realPartScore, type QuadraticIntegrand } from '../numeric/quadrature.js';
 import { describePoint, pointRecord, rng, type Point } from '../domains/sample.js';
-import { complexLatex, complexText } from '../gaussian/describe.js';
+import { complexApprox, complexApproxLatex } from '../../shared/record/numbers.js';
 import { blankReport, StatementFailure, type Context } from './context.js';
-import { angleText, bindPoint, rel, resultNamed, unitLine } from './shared.js';
+import { angleFormula, bindPoint, rel, resultNamed, unitLine } from './shared.js';
 
 export const DEFAULT_TOLERANCE = 1e-8;
 /** The quadrature's own time budget (below the statement's limit, so that hitting it is reported, not fatal). */
@@ -112,15 +112,21 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
   const contourWords = g.contour
     ? `along the rotated contour of ${g.contour.of} (${g.contour.labels.join(', ')}), written as the rotated integrand over real variables`
     : 'along the real contour';
-  const fail = (text: string, message: string) => {
+  const base = {
+    kind: 'numeric-check' as const, name, vars: n,
+    contour: g.contour ? 'rotated' as const : 'real' as const, contourLabels: g.contour?.labels ?? [],
+    ...(g.contour ? { contourOf: g.contour.of } : {}),
+    ...(p.size ? { at: pointRecord(p) } : {}),
+  };
+  const fail = (refused: 'too-many-variables' | 'no-contour', message: string) => {
     report.status = 'error';
     report.agrees = false;
-    report.steps.push({ kind: 'numeric-check', text, latex: '\\text{no numeric check}' });
+    report.steps.push({ ...base, refused, value: null, errorEstimate: null, evaluations: 0, timeMs: 0, tolerance, truncation: 0, timedOut: false, integrandCheck: 0 });
     report.error = { message, line, column: s.span.start.column };
     return report;
   };
   if (n > 3) {
-    return fail(`The numeric check of a ${n}-variable integral is out of reach: nested quadrature here goes up to three variables, and a coarser rule would give a poor number rather than a check.`,
+    return fail('too-many-variables',
       `The numeric check is out of reach for ${n} variables (verify handles one to three).`);
   }
   const split = splitIntegrand(g.integrand, new Set(g.vars));
@@ -150,7 +156,7 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
   if (realPartScore(q0) === null) {
     extra = smallLegalRotation(q0);
     if (!extra) {
-      return fail(`On the contour the record says, Re A is not positive definite${where}, and no further legal rotation of the variables by up to pi/4 makes it so: no numeric check.`,
+      return fail('no-contour',
         `No contour within reach makes ${name} absolutely convergent${where}; the numeric check was not attempted.`);
     }
     q = rotateNumbers(q0, extra.angles);
@@ -158,10 +164,14 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
   const closed = result.valueAt(p);
   const quad = integrateGaussian(q, tolerance / 100, VERIFY_BUDGET_MS);
   const value = { re: quad.re, im: quad.im };
-  const method = `nested trapezoidal quadrature (on a box cut where |integrand| has fallen by e^-${quad.truncation.toFixed(1)} at every level, the step started below the integrand's highest local frequency and halved until two levels agree)`;
-  const rotWords = extra
-    ? `; the integral is oscillatory there, so the contour was turned further by the legal rotation ${g.vars.map((v, k) => `${v} -> exp(i*(${angleText(extra!.angles[k]!)}))*${v}`).join(', ')} (the swept family checked at ${extra.checked} angles), where it converges absolutely`
-    : '';
+  const extraRotation = extra
+    ? { vars: g.vars, angles: extra.angles.map(angleFormula), checked: extra.checked }
+    : undefined;
+  const quadStep = {
+    ...base, ...(extraRotation ? { extraRotation } : {}),
+    value: quad.timedOut ? null : { re: quad.re, im: quad.im }, errorEstimate: quad.timedOut ? null : quad.error,
+    evaluations: quad.evaluations, timeMs: quad.timeMs, tolerance, truncation: quad.truncation, timedOut: quad.timedOut, integrandCheck: worst,
+  };
   report.diagram = {
     contours: [
       { label: g.contour ? `Contour of ${name}` : 'Real contour', role: g.contour ? 'rotated' : 'real', points: g.contour ? unitLine(g.contour.angles.find((a) => a !== 0) ?? 0) : unitLine(0) },
@@ -172,34 +182,16 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
   if (quad.timedOut) {
     report.status = 'failed';
     report.agrees = false;
-    report.steps.push({
-      kind: 'numeric-check',
-      text: `The quadrature ${contourWords}${where} hit its time limit of ${VERIFY_BUDGET_MS / 1000} s after ${quad.evaluations} integrand evaluations; no value.`,
-      latex: '\\text{time limit}',
-      quadrature: { value: { re: NaN, im: NaN }, errorEstimate: Infinity, evaluations: quad.evaluations, timeMs: quad.timeMs, tolerance, timedOut: true },
-    });
+    report.steps.push(quadStep);
     report.error = { message: `The numeric check of ${name} hit its time limit of ${VERIFY_BUDGET_MS / 1000} s.`, line, column: s.span.start.column };
     return report;
   }
   const verdict = closed ? agreesWithClosedForm(value, closed, tolerance) : { agrees: false, relativeDifference: NaN };
   report.agrees = verdict.agrees;
   report.status = verdict.agrees ? 'ok' : 'failed';
-  report.result = { text: complexText(value, 15), latex: complexLatex(value, 15), value };
-  report.steps.push({
-    kind: 'numeric-check',
-    text: `${name}${where} by ${method} over ${n} variable${n > 1 ? 's' : ''} ${contourWords}${rotWords}: ${complexText(value, 15)}, error estimate ${quad.error.toExponential(2)}, ${quad.evaluations} integrand evaluations, ${quad.timeMs} ms. The integrand was read by evaluation only (its exponent polarized into numbers and checked against the whole integrand at 5 random points, largest relative difference ${worst.toExponential(2)}).`,
-    latex: `${name} \\approx ${complexLatex(value, 12)}`,
-    quadrature: { value, errorEstimate: quad.error, evaluations: quad.evaluations, timeMs: quad.timeMs, tolerance, timedOut: false },
-    ...(p.size ? { at: pointRecord(p) } : {}),
-  });
-  report.steps.push({
-    kind: 'numeric-check',
-    text: closed
-      ? `Against the closed form (${complexText(closed, 15)}): relative difference ${verdict.relativeDifference.toExponential(2)}, ${verdict.agrees ? 'within' : 'OUTSIDE'} the tolerance ${tolerance}: ${verdict.agrees ? 'agrees' : 'disagrees'}.`
-      : `The closed form has no value here (it diverges${where}); nothing to agree with.`,
-    latex: verdict.agrees ? '\\text{agrees}' : '\\text{disagrees}',
-    relativeError: verdict.relativeDifference,
-  });
+  report.result = { text: complexApprox(value, 15), latex: complexApproxLatex(value, 15), value };
+  report.steps.push(quadStep);
+  report.steps.push({ kind: 'numeric-agreement', name, closed: closed ? { re: closed.re, im: closed.im } : null, relativeDifference: closed ? verdict.relativeDifference : null, tolerance, agrees: verdict.agrees });
   if (!verdict.agrees) report.error = { message: `The numeric check of ${name} disagrees with the closed form${where} (relative difference ${verdict.relativeDifference.toExponential(2)}).`, line, column: s.span.start.column };
   return report;
 }

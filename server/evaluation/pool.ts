@@ -1,6 +1,7 @@
 import { Worker } from 'node:worker_threads';
 import type { StopReason, StoppedStatement } from '../../cas/index.js';
-import type { WorksheetReport } from '../../shared/evaluation.js';
+import { worksheetReport, type EvaluationProgress, type WorksheetReport } from '../../shared/evaluation.js';
+import type { Logger } from '../logger.js';
 import type { EvaluationTask, WorkerMessage } from './worker.js';
 
 const WORKER_URL = new URL('./worker-entry.mjs', import.meta.url);
@@ -11,7 +12,7 @@ interface Job {
   stopped: StoppedStatement[];
   resolve: (report: WorksheetReport) => void;
   reject: (err: Error) => void;
-  onProgress?: (progress: { index: number; line: number }) => void;
+  progress?: ProgressListener;
   signal?: AbortSignal;
   /** Set while a worker runs the job: stops it at once. */
   cancel?: () => void;
@@ -20,7 +21,20 @@ interface Job {
 export interface EvaluateCallOptions {
   /** Aborting (the client went away, or pressed cancel) stops the work. */
   signal?: AbortSignal;
-  onProgress?: (progress: { index: number; line: number }) => void;
+  progress?: ProgressListener;
+}
+
+/** Told as each statement starts; `total` is the statement count the limits check found. */
+export interface ProgressListener {
+  total: number;
+  onProgress: (progress: EvaluationProgress) => void;
+}
+
+/** A worker's report that does not match the shared schema: an error of that evaluation only. */
+export class MalformedReport extends Error {
+  constructor() {
+    super('The computation returned a report the server could not read; this is a bug, please report it.');
+  }
 }
 
 export class EvaluationCancelled extends Error {
@@ -34,6 +48,8 @@ export interface PoolOptions {
   timeLimitMsPerStatement: number;
   /** Heap limit per worker in MB (default 512); a statement that needs more gets an error, the server stays up. */
   maxOldGenerationSizeMb?: number;
+  /** Where a malformed worker report is logged. */
+  logger?: Pick<Logger, 'error'>;
 }
 
 /**
@@ -62,11 +78,15 @@ export class EvaluationPool {
   /** Workers started so far, the replacements included (for tests and metrics). */
   spawned = 0;
 
+  /** Evaluations asked of the pool (for tests and metrics: a stored report costs none). */
+  evaluations = 0;
+
   evaluate(source: string, options: EvaluateCallOptions = {}): Promise<WorksheetReport> {
     if (this.closed) return Promise.reject(new Error('The evaluation pool is shut down.'));
     if (options.signal?.aborted) return Promise.reject(new EvaluationCancelled());
+    this.evaluations += 1;
     return new Promise((resolve, reject) => {
-      const job: Job = { source, stopped: [], resolve, reject, onProgress: options.onProgress, signal: options.signal };
+      const job: Job = { source, stopped: [], resolve, reject, progress: options.progress, signal: options.signal };
       options.signal?.addEventListener(
         'abort',
         () => {
@@ -88,6 +108,17 @@ export class EvaluationPool {
     await Promise.all([...this.workers].map((w) => w.terminate()));
     this.workers.clear();
     this.idle = [];
+  }
+
+  /** The worker's report crosses into the server only through the shared schema. */
+  private settle(job: Job, report: unknown): void {
+    const checked = worksheetReport.safeParse(report);
+    if (checked.success) {
+      job.resolve(checked.data);
+      return;
+    }
+    this.options.logger?.error({ issues: checked.error.issues.slice(0, 10) }, 'evaluation worker sent a malformed report');
+    job.reject(new MalformedReport());
   }
 
   private spawn(): Worker {
@@ -149,12 +180,12 @@ export class EvaluationPool {
     const onMessage = (message: WorkerMessage) => {
       if (message.type === 'start') {
         current = message.index;
-        job.onProgress?.({ index: message.index, line: message.line });
+        job.progress?.onProgress({ index: message.index, line: message.line, total: job.progress.total });
         arm();
       } else {
         cleanup();
         this.idle.push(worker);
-        if (message.type === 'done') job.resolve(message.report as WorksheetReport);
+        if (message.type === 'done') this.settle(job, message.report);
         else job.reject(new Error(message.message));
         this.dispatch();
       }

@@ -1,12 +1,38 @@
-import type { WorksheetReport } from '../../shared/evaluation.js';
+import { ENGINE_VERSION } from '../../cas/index.js';
+import { worksheetReport, type WorksheetReport } from '../../shared/evaluation.js';
 import { Evaluation } from '../models/index.js';
+import { checkEvaluationLimits } from './limits.js';
 import type { EvaluationPool } from './pool.js';
 
-/** The stored report of a worksheet version, computing and storing it when missing. */
-export async function reportForVersion(pool: EvaluationPool, worksheetId: number, version: number, source: string): Promise<WorksheetReport> {
-  const stored = await Evaluation.findOne({ where: { worksheetId, version } });
-  if (stored) return stored.report;
-  const report = await pool.evaluate(source);
+/** A stored report and whether this engine made it. */
+export interface StoredReport {
+  report: WorksheetReport;
+  current: boolean;
+}
+
+/**
+ * The stored report of a worksheet version, or null. A report stored by an engine
+ * whose report no longer matches the shared schema is as good as missing.
+ */
+export async function storedReport(worksheetId: number, version: number): Promise<StoredReport | null> {
+  const row = await Evaluation.findOne({ where: { worksheetId, version } });
+  if (!row) return null;
+  const checked = worksheetReport.safeParse(row.report);
+  if (!checked.success) return null;
+  return { report: checked.data, current: checked.data.engine === ENGINE_VERSION };
+}
+
+/** Keeps a version's report, replacing one an older engine made. */
+export async function storeReport(worksheetId: number, version: number, report: WorksheetReport): Promise<void> {
   await Evaluation.upsert({ worksheetId, version, report }, { conflictFields: ['worksheet_id', 'version'] } as never);
+}
+
+/** The current report of a worksheet version, computing and storing it when missing or made by another engine. */
+export async function reportForVersion(pool: EvaluationPool, worksheetId: number, version: number, source: string): Promise<WorksheetReport> {
+  const stored = await storedReport(worksheetId, version);
+  if (stored?.current) return stored.report;
+  checkEvaluationLimits(source);
+  const report = await pool.evaluate(source);
+  await storeReport(worksheetId, version, report);
   return report;
 }

@@ -1,15 +1,13 @@
 import { Router, type Request, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import passport from 'passport';
-import { QueryTypes } from 'sequelize';
 import { z } from 'zod';
 import { loginBody, registerBody } from '../../shared/api.js';
-import { hashToken } from '../auth/tokens.js';
-import { hashPassword } from '../auth/password.js';
 import { currentUser, requireUser } from '../middleware/auth.js';
 import { HttpError } from '../middleware/http-error.js';
 import { parseInput } from '../middleware/validate.js';
-import { User } from '../models/index.js';
+import type { User } from '../models/index.js';
+import { register, unlockAccount } from '../services/users.js';
 import { issueCsrfToken } from '../middleware/csrf.js';
 
 const unlockBody = z.object({ token: z.string().min(10).max(200) });
@@ -51,10 +49,7 @@ export function authRoutes(options: { loginRateLimit: number }): Router {
 
   router.post('/register', registerLimiter, async (req, res) => {
     const body = parseInput(registerBody, req.body);
-    if (await User.findOne({ where: { email: body.email } })) {
-      throw new HttpError(409, 'email_taken', 'An account with this e-mail address exists already. Sign in instead.');
-    }
-    const user = await User.create({ email: body.email, displayName: body.displayName, passwordHash: await hashPassword(body.password) });
+    const user = await register(body);
     await signIn(req, res, user);
     res.status(201).json({ user: user.toDto() });
   });
@@ -75,15 +70,7 @@ export function authRoutes(options: { loginRateLimit: number }): Router {
   // The link from the lockout mail: single use, 7 days.
   router.post('/unlock', async (req, res) => {
     const { token } = parseInput(unlockBody, req.body);
-    const unlocked = await User.sequelize!.transaction(async (transaction) => {
-      const [row] = await User.sequelize!.query<{ id: number; user_id: number }>(
-        `UPDATE account_unlocks SET used_at = now() WHERE token_hash = $1 AND used_at IS NULL AND expires_at > now() RETURNING id, user_id`,
-        { bind: [hashToken(token)], type: QueryTypes.SELECT, transaction },
-      );
-      if (!row) return false;
-      await User.update({ lockedAt: null, failedSignIns: 0 }, { where: { id: row.user_id }, transaction });
-      return true;
-    });
+    const unlocked = await unlockAccount(token);
     if (!unlocked) throw new HttpError(400, 'unlock_invalid', 'This unlock link is not valid any more (used, expired or mistyped). Try to sign in to get a new one.');
     res.json({ message: 'The account is unlocked. Sign in with your password.' });
   });

@@ -1,5 +1,4 @@
 import { Router, type Request } from 'express';
-import { recordActivity } from '../activity/record.js';
 import type { EvaluationPool } from '../evaluation/pool.js';
 import { reportForVersion } from '../evaluation/stored.js';
 import { latexAppendix } from '../exports/latex.js';
@@ -7,9 +6,10 @@ import { currentUser } from '../middleware/auth.js';
 import { requireWorksheetRole } from '../middleware/group-access.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, routeParam } from '../middleware/validate.js';
-import { WorksheetVersion } from '../models/index.js';
-import { statementReviews } from './reviews.js';
+import { findVersionToExport, recordExport } from '../services/exports.js';
+import { statementReviews } from '../services/reviews.js';
 
+// A title, not worksheet text: the pattern only picks a safe file name.
 const fileSafe = (title: string) => title.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 80) || 'worksheet';
 
 /** GET /api/worksheets/:id/export?format=swk|json|latex&version=N (the current version by default). */
@@ -22,10 +22,10 @@ export function exportRoutes(pool: EvaluationPool): Router {
     const format = String(req.query['format'] ?? 'swk');
     if (!['swk', 'json', 'latex'].includes(format)) throw new HttpError(400, 'invalid_input', 'format: Choose swk, json or latex.');
     const number = req.query['version'] ? idParam(req.query['version'], 'This version') : worksheet.version;
-    const version = await WorksheetVersion.findOne({ where: { worksheetId: id, number } });
+    const version = await findVersionToExport(id, number);
     if (!version) throw notFound(`Version ${number} of this worksheet`);
     const name = `${fileSafe(version.title)}-v${number}`;
-    await recordActivity(WorksheetVersion.sequelize!, { groupId: worksheet.groupId, userId: user.id, action: 'exported', subject: `${version.title} v${number} as ${format}`, worksheetId: id });
+    await recordExport(worksheet, user.id, version, format);
     if (format === 'swk') {
       res.set({ 'content-type': 'text/plain; charset=utf-8', 'content-disposition': `attachment; filename="${name}.swk"` }).send(version.source);
       return;
@@ -44,7 +44,7 @@ export function exportRoutes(pool: EvaluationPool): Router {
     }
     res
       .set({ 'content-type': 'application/x-tex; charset=utf-8', 'content-disposition': `attachment; filename="${name}.tex"` })
-      .send(latexAppendix({ title: version.title, version: number, source: version.source, report, reviews }));
+      .send(latexAppendix({ title: version.title, version: number, report, reviews }));
   });
   return router;
 }

@@ -1,15 +1,15 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import multer from 'multer';
-import { QueryTypes } from 'sequelize';
 import { LIMITS } from '../../shared/api.js';
-import { recordActivity } from '../activity/record.js';
 import type { EvaluationPool } from '../evaluation/pool.js';
 import { checkEvaluationLimits } from '../evaluation/limits.js';
+import { storeReport } from '../evaluation/stored.js';
 import { currentUser } from '../middleware/auth.js';
 import { requireGroupRole, requireWorksheetRole } from '../middleware/group-access.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, routeParam } from '../middleware/validate.js';
-import { Worksheet, WorksheetVersion } from '../models/index.js';
+import { addAttachment, deleteAttachment, findAttachment, listAttachments } from '../services/files.js';
+import { createWorksheet } from '../services/worksheets.js';
 import { decodeUtf8, sniffType } from '../uploads/sniff.js';
 
 const MB = 1024 * 1024;
@@ -40,23 +40,21 @@ export function fileRoutes(pool: EvaluationPool): Router {
       try {
         if (err) throw err;
         const file = req.file!;
-        if (!/\.swk$/i.test(file.originalname)) throw new HttpError(415, 'wrong_type', 'A worksheet file ends in .swk. Choose a Sheetwise worksheet file.');
+        const swk = file.originalname.toLowerCase().endsWith('.swk');
+        if (!swk) throw new HttpError(415, 'wrong_type', 'A worksheet file ends in .swk. Choose a Sheetwise worksheet file.');
         const source = decodeUtf8(file.buffer);
         if (source === null) throw new HttpError(415, 'not_text', 'The file is not UTF-8 text. Save it as UTF-8 and import it again.');
         checkEvaluationLimits(source);
-        const title = (typeof req.body?.title === 'string' && req.body.title.trim()) || file.originalname.replace(/\.swk$/i, '');
+        const title = (typeof req.body?.title === 'string' && req.body.title.trim()) || file.originalname.slice(0, -'.swk'.length);
         if (title.length > LIMITS.worksheetTitleLength) throw new HttpError(400, 'invalid_input', `title: Use at most ${LIMITS.worksheetTitleLength} characters.`);
         const report = await pool.evaluate(source);
         if (req.query['save'] !== '1') {
           res.json({ preview: { title, source, report } });
           return;
         }
-        const worksheet = await Worksheet.sequelize!.transaction(async (transaction) => {
-          const created = await Worksheet.create({ groupId, title, source, updatedById: user.id }, { transaction });
-          await WorksheetVersion.create({ worksheetId: created.id, number: 1, title, source, authorId: user.id }, { transaction });
-          await recordActivity(Worksheet.sequelize!, { groupId, userId: user.id, action: 'imported worksheet', subject: title, worksheetId: created.id }, transaction);
-          return created;
-        });
+        const worksheet = await createWorksheet({ groupId, user, title, source, action: 'imported worksheet' });
+        // The preview's report is version 1's: opening the worksheet shows it at once.
+        await storeReport(worksheet.id, 1, report);
         res.status(201).json({ worksheet: { id: worksheet.id, title, version: 1 }, report });
       } catch (e) {
         next(e);
@@ -67,11 +65,7 @@ export function fileRoutes(pool: EvaluationPool): Router {
   router.get('/worksheets/:id/attachments', async (req, res) => {
     const id = idParam(routeParam(req, 'id'), 'This worksheet');
     await requireWorksheetRole(currentUser(req).id, id, 'read');
-    const rows = await Worksheet.sequelize!.query<{ id: number; file_name: string; media_type: string; size: number; created_at: Date; uploader: string | null }>(
-      `SELECT a.id, a.file_name, a.media_type, a.size, a.created_at, u.display_name AS uploader
-       FROM attachments a LEFT JOIN users u ON u.id = a.uploaded_by_id WHERE a.worksheet_id = $1 ORDER BY a.id`,
-      { bind: [id], type: QueryTypes.SELECT },
-    );
+    const rows = await listAttachments(id);
     res.json({
       attachments: rows.map((r) => ({ id: r.id, fileName: r.file_name, mediaType: r.media_type, size: r.size, uploadedBy: r.uploader ?? 'a former member', createdAt: new Date(r.created_at).toISOString() })),
     });
@@ -90,13 +84,8 @@ export function fileRoutes(pool: EvaluationPool): Router {
           throw new HttpError(415, 'wrong_type', 'Attach a PDF, PNG, SVG, CSV or TeX file. The type is read from the content, and this content is none of these.');
         }
         const name = file.originalname.replace(/[\\/\u0000-\u001f]/g, '_').slice(0, 255);
-        // One statement: the row is stored whole or not at all.
-        const [row] = await Worksheet.sequelize!.query<{ id: number }>(
-          'INSERT INTO attachments (worksheet_id, file_name, media_type, size, content, uploaded_by_id) VALUES ($1, $2, $3, $4, $5, $6) RETURNING id',
-          { bind: [id, name, type, file.size, file.buffer, user.id], type: QueryTypes.SELECT },
-        );
-        await recordActivity(Worksheet.sequelize!, { groupId: worksheet.groupId, userId: user.id, action: 'attached file', subject: `${name} to ${worksheet.title}`, worksheetId: id });
-        res.status(201).json({ attachment: { id: row!.id, fileName: name, mediaType: type, size: file.size, uploadedBy: user.displayName } });
+        const attachmentId = await addAttachment({ worksheet, user, name, type, content: file.buffer });
+        res.status(201).json({ attachment: { id: attachmentId, fileName: name, mediaType: type, size: file.size, uploadedBy: user.displayName } });
       } catch (e) {
         next(e);
       }
@@ -106,10 +95,7 @@ export function fileRoutes(pool: EvaluationPool): Router {
   router.get('/worksheets/:id/attachments/:attachmentId', async (req, res) => {
     const id = idParam(routeParam(req, 'id'), 'This worksheet');
     await requireWorksheetRole(currentUser(req).id, id, 'read');
-    const [row] = await Worksheet.sequelize!.query<{ file_name: string; media_type: string; content: Buffer }>(
-      'SELECT file_name, media_type, content FROM attachments WHERE id = $1 AND worksheet_id = $2',
-      { bind: [idParam(routeParam(req, 'attachmentId'), 'This file'), id], type: QueryTypes.SELECT },
-    );
+    const row = await findAttachment(id, idParam(routeParam(req, 'attachmentId'), 'This file'));
     if (!row) throw notFound('This file');
     // Downloaded, never rendered inline: an SVG could otherwise run script on our origin.
     res.set({ 'content-type': row.media_type, 'content-disposition': `attachment; filename="${encodeURIComponent(row.file_name)}"`, 'x-content-type-options': 'nosniff' });
@@ -119,7 +105,7 @@ export function fileRoutes(pool: EvaluationPool): Router {
   router.delete('/worksheets/:id/attachments/:attachmentId', async (req, res) => {
     const id = idParam(routeParam(req, 'id'), 'This worksheet');
     await requireWorksheetRole(currentUser(req).id, id, 'editWorksheets');
-    await Worksheet.sequelize!.query('DELETE FROM attachments WHERE id = $1 AND worksheet_id = $2', { bind: [idParam(routeParam(req, 'attachmentId'), 'This file'), id] });
+    await deleteAttachment(id, idParam(routeParam(req, 'attachmentId'), 'This file'));
     res.status(204).end();
   });
 

@@ -4,11 +4,14 @@
  */
 export type AllowedType = 'application/pdf' | 'image/png' | 'image/svg+xml' | 'text/csv' | 'application/x-tex';
 
+/** Control characters other than tab, newline and carriage return mean binary data. */
+const isBinaryByte = (b: number) => b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d;
+
+/** The bytes as UTF-8 text (a worksheet import, a CSV or TeX attachment), or null for binary data. */
 export function decodeUtf8(bytes: Uint8Array): string | null {
+  if (bytes.some(isBinaryByte)) return null;
   try {
-    const text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
-    // Control characters other than tab, newline and carriage return mean binary data.
-    return /[\u0000-\u0008\u000b\u000c\u000e-\u001f]/.test(text) ? null : text;
+    return new TextDecoder('utf-8', { fatal: true }).decode(bytes);
   } catch {
     return null;
   }

@@ -1,11 +1,14 @@
 /**
  * The one renderer of the step record: a typed step becomes a sentence (command line,
- * screen reader text), LaTeX (export, card formula) and the card's parts. Nothing
- * else in the product composes or parses step sentences.
+ * screen-reader text, card) and LaTeX (export, card formula). Nothing else in the
+ * product composes or parses step sentences; the core only fills in typed fields.
  *
- * Example: renderStep(step).text is the sentence the command line prints for it.
+ * Example: renderStep({ kind: 'param', names: ['k'], domain: 'positive' }).text is
+ * "k is a positive real number."
  */
-import type { Step } from '../evaluation.js';
+import type { Basis, Formula, SampleBox, Step, StepOf } from '../evaluation.js';
+import { DOMAIN_HELP } from '../language.js';
+import { approx, complexApprox, complexApproxLatex, digits, piMultipleText, pointText, scaledText } from './numbers.js';
 
 export interface RenderedStep {
   /** The sentence in plain words, formulas in infix text. */
@@ -14,6 +17,379 @@ export interface RenderedStep {
   latex: string;
 }
 
+const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+const list = (xs: readonly string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
+const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
+const tex = (s: string) => `\\text{${s.replace(/[\\{}]/g, '')}}`;
+
+function boxText(box: SampleBox): string {
+  return box.map((b) => `${b.name} ${b.domain} with magnitudes log-spaced from ${digits(b.from, 2)} to ${digits(b.to, 2)}`).join('; ');
+}
+
+/** "proved on the whole declared domain" / "checked at 32 points of …, not proved". */
+export function basisText(b: Basis): string {
+  switch (b.kind) {
+    case 'proved': return 'proved on the whole declared domain';
+    case 'numeric': return 'decided numerically in double precision';
+    case 'sampled': return `checked at ${plural(b.count, 'point')} (${boxText(b.box)}), not proved`;
+  }
+}
+
+const matrixText = (m: Formula[][]) => `[${m.map((r) => `[${r.map((e) => e.text).join(', ')}]`).join(', ')}]`;
+const matrixLatex = (m: Formula[][]) => `\\begin{pmatrix} ${m.map((r) => r.map((e) => e.latex).join(' & ')).join(' \\\\ ')} \\end{pmatrix}`;
+
+const CONVERGENCE_WORDS = {
+  absolute: 'absolutely convergent',
+  oscillatory: 'oscillatory, defined by the i*epsilon prescription (the limit of A + epsilon*I as epsilon -> 0+)',
+  divergent: 'divergent',
+  piecewise: 'convergent only on part of the domain',
+  unknown: 'of unknown convergence',
+} as const;
+
+function convergence(s: StepOf<'convergence'>): RenderedStep {
+  const head = `${cap(CONVERGENCE_WORDS[s.verdict])}, ${basisText(s.basis)}`;
+  const dir = s.direction ? `; the integrand grows along the real direction (${s.direction.map((x) => digits(x)).join(', ')})${s.at ? ` at ${pointText(s.at)}` : ''}` : '';
+  const why: Record<StepOf<'convergence'>['reason'], string> = {
+    sylvester: `: Re A is positive definite, its leading principal minors ${s.minors.map((m) => m.text).join(', ')} being positive (Sylvester's criterion)`,
+    diagonal: ': a diagonal entry of Re A is negative',
+    eigenvalues: `: eigenvalues of Re A ${s.realEigenvalues.map((x) => approx(x)).join(', ')}`,
+    cholesky: `: Re A is positive definite, its Cholesky factorization succeeding with every pivot positive (smallest ${approx(s.smallestPivot ?? NaN)}; with this many variables the eigenvalues are not computed)`,
+    'i-epsilon': ': Re A is only semidefinite, but A is nonsingular, so the integral is defined as the limit of A + epsilon*I as epsilon -> 0+',
+    grows: ': Re A has a negative direction',
+    'no-decay': ': Re A is singular and nothing makes the integrand decay along its kernel',
+    'source-grows': ': Re A is only semidefinite and the real part of the linear term has a component along its kernel, so the integrand grows along the real line; the value below is the i*epsilon (analytic) one',
+    changes: `: ${s.regions.map((r) => `${r.verdict} for ${r.condition.text}`).join('; ')}`,
+    sampled: Object.keys(s.counts).length ? `: ${Object.entries(s.counts).map(([k, n]) => `${k} at ${n}`).join(', ')}` : '',
+  };
+  const bounds = s.boundaries.length ? `; boundary at ${s.boundaries.map((b) => `${b.text} (${approx(b.approx)})`).join(', ')}` : '';
+  const latex = s.verdict === 'absolute'
+    ? (s.minors.length ? `\\operatorname{Re} A \\succ 0:\\quad ${s.minors.map((m, k) => `\\Delta_{${k + 1}} = ${m.latex}`).join(',\\ ')}` : '\\operatorname{Re} A \\succ 0')
+    : s.verdict === 'oscillatory' ? '\\operatorname{Re} A \\succeq 0,\\ \\det A \\neq 0'
+    : s.verdict === 'divergent' ? '\\operatorname{Re} A \\not\\succeq 0'
+    : s.regions.length ? s.regions.map((r) => `${tex(r.verdict)}\\ (${r.condition.latex})`).join(';\\ ') : tex('convergence depends on the parameters');
+  return { text: `${head}${why[s.reason]}${bounds}${dir}.`, latex };
+}
+
+function branch(s: StepOf<'branch'>): RenderedStep {
+  if (s.rule === 'principal-function') {
+    const [lo, hi] = s.argRange ?? [0, 0];
+    const range = piMultipleText(lo) === piMultipleText(hi) ? `is ${piMultipleText(lo)}` : `lies between ${piMultipleText(lo)} and ${piMultipleText(hi)}`;
+    const near = s.nearCut ? `; ${s.nearCut} of them lie within 0.1 rad of the cut, where a continuous branch could differ` : ', away from the cut';
+    return {
+      text: `${s.fn}(${s.argument?.text ?? ''}) is taken on the principal branch (cut on the negative real axis): the argument of ${s.argument?.text ?? ''} ${range} at ${basisText(s.basis)}${near}.`,
+      latex: `\\${s.fn === 'log' ? 'log' : 'sqrt'}\\ ${tex('principal')}`,
+    };
+  }
+  const eig = s.eigenvalues.map((z) => `${complexApprox(z, 5)} (arg ${piMultipleText(z.arg)})`).join(', ');
+  const sum = s.argumentSum === undefined ? '' : piMultipleText(s.argumentSum);
+  const where = s.at ? ` at ${pointText(s.at)}` : '';
+  let text: string;
+  switch (s.rule) {
+    case 'one-variable':
+      text = 'With one variable det A is the coupling itself, in the closed right half plane, so its principal root is the continuous one';
+      break;
+    case 'two-variables':
+      text = 'With two variables and Re A > 0 both eigenvalue arguments lie in (-pi/2, pi/2), so their sum lies in (-pi, pi) and the principal sqrt(det A) is the product of the principal roots on the whole domain';
+      break;
+    case 'pivots':
+      text = `Re A > 0, so every L D L^T pivot of A has positive real part and det(A)^(1/2) is the product of the pivots' principal roots; their arguments sum to ${sum}, so the principal sqrt(det A) ${s.principal === 'right' ? 'is that product' : 'has the wrong sign: det(A)^(-1/2) = -1/sqrt(det A)'}`;
+      break;
+    case 'eigenvalues':
+      text = `The eigenvalues of A${where} are ${eig}; their arguments sum to ${sum}, ${s.principal === 'right' ? 'inside (-pi, pi], so the principal sqrt(det A) is the product of the principal roots' : 'outside (-pi, pi], so the principal sqrt(det A) has the wrong sign: det(A)^(-1/2) = -1/sqrt(det A)'}`;
+      break;
+    case 'crossings':
+      text = s.crossings.length
+        ? `det A crosses the negative real axis (the principal cut) at ${s.crossings.map((c) => `${c.text} (${approx(c.approx)})`).join(', ')}; the principal sqrt(det A) is ${s.regions.map((r) => `${r.holds ? 'right' : 'wrong'} for ${r.condition.text}`).join(' and ')}`
+        : `det A does not cross the negative real axis inside the domain, so the sign found at one point holds everywhere: ${eig ? `${s.at && Object.keys(s.at).length ? `at ${pointText(s.at)} ` : ''}the eigenvalues of A are ${eig}, their arguments summing to ${sum}, so ` : ''}the principal sqrt(det A) is ${s.principal === 'right' ? 'the continuous branch' : 'minus the continuous branch'} on the whole domain`;
+      break;
+    case 'sampled':
+      text = s.principal === 'right'
+        ? 'The principal sqrt(det A) equals the product of principal roots of the eigenvalues at every sampled point'
+        : s.principal === 'wrong'
+          ? `The principal sqrt(det A) has the wrong sign at every sampled point: det(A)^(-1/2) = -1/sqrt(det A) there${eig ? `; for example${where} the eigenvalues are ${eig}, arguments summing to ${sum}` : ''}`
+          : `The sheet changes inside the domain: the principal sqrt(det A) is right at some sampled points and wrong at others${eig ? ` (for example${where}, eigenvalues ${eig})` : ''}; the result is written with the product of the pivots' principal roots instead`;
+      break;
+  }
+  const pivotWords = s.pivotsAgree === null ? '' : s.pivotsAgree ? ' The L D L^T pivots give the same root.' : ' The L D L^T pivots disagreed with the eigenvalues at some point, where the eigenvalues were used.';
+  const latex = s.rule === 'pivots'
+    ? `\\det(A)^{1/2} = \\prod_k d_k^{1/2}${s.argumentSum === undefined ? '' : `,\\quad \\sum_k \\arg d_k \\approx ${digits(s.argumentSum / Math.PI, 4)}\\,\\pi`}`
+    : s.rule === 'crossings' ? (s.regions.map((r) => `${tex(r.holds ? 'principal right' : 'principal wrong')}\\ (${r.condition.latex})`).join(';\\ ') || '\\det(A)^{1/2}\\ \\text{principal}')
+    : `\\det(A)^{1/2} = \\prod_k \\lambda_k^{1/2}${s.argumentSum === undefined ? '' : `,\\quad \\sum_k \\arg \\lambda_k \\approx ${digits(s.argumentSum / Math.PI, 4)}\\,\\pi`}`;
+  return { text: `${text} (${basisText(s.basis)}).${pivotWords}`, latex };
+}
+
+const WRITTEN = {
+  principal: 'with the principal square root of det A',
+  negated: 'as minus the principal form, as the branch requires',
+  pivots: 'with the principal roots of the L D L^T pivots (the continuous branch throughout)',
+  fresnel: 'in the Fresnel form |det B|^(-1/2) exp(i*pi*sig/4)',
+  numeric: 'from (2 pi)^(n/2) det(A)^(-1/2) exp(J^T A^-1 J / 2 + c) in double precision on the branch above',
+  none: '',
+} as const;
+
+function result(s: StepOf<'result'>): RenderedStep {
+  if (!s.formula) return { text: 'The integral diverges: no value.', latex: tex('divergent') };
+  const value = s.value ? `; numerically ${complexApprox(s.value, 15)}` : s.scaled ? `; numerically ${scaledText(s.scaled, 12)}, beyond double precision, computed through its logarithm` : '';
+  if (s.written === 'numeric') return { text: `${s.name} ${complexApprox(s.value ?? { re: NaN, im: NaN }, 15)}, ${WRITTEN.numeric}.`, latex: `${s.name} ${complexApproxLatex(s.value ?? { re: NaN, im: NaN }, 15)}` };
+  const pieces = s.pieces.length ? `; piecewise: ${s.pieces.map((p) => `${p.formula.text} for ${p.condition.text}`).join('; ')}` : '';
+  const check = s.verified
+    ? `this form is the continuous branch (${basisText(s.basis)})`
+    : 'WARNING: no written form reproduced the continuous branch at every point checked; treat it with care';
+  return { text: `${s.name} = ${s.formula.text}, written ${WRITTEN[s.written]}; ${check}${pieces}${value}.`, latex: `${s.name} = ${s.formula.latex}` };
+}
+
+function expect(s: StepOf<'expect'>): RenderedStep {
+  if (s.basis.kind === 'proved' && s.how !== 'sampled') {
+    const c = s.counterexample;
+    const example = c ? `; for example at ${Object.keys(c.at).length ? pointText(c.at) : 'the computed value'}, ${s.name} ${complexApprox(c.lhs, 12)} but the expected value is ${c.rhs ? complexApprox(c.rhs, 12) : 'not a finite number'}` : '';
+    if (s.holds) {
+      return {
+        text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: both sides have the same square and exponent exactly, and the same sign wherever ${s.name} is defined.`,
+        latex: `${s.name} = ${s.expected.latex}`,
+      };
+    }
+    if (s.how === 'differs') {
+      return { text: `${s.name} = ${s.expected.text} does not hold (${basisText(s.basis)}): the squares or the exponentials of the two sides differ as functions${example}.`, latex: `${s.name} \\neq ${s.expected.latex}` };
+    }
+    const where = s.regions.filter((r) => !r.holds).map((r) => r.condition.text).join(' or ');
+    const ok = s.regions.filter((r) => r.holds).map((r) => r.condition.text).join(' or ');
+    return {
+      text: `${s.name} = ${s.expected.text} does not hold${where ? ` for ${where}` : ''}${ok ? ` (it holds for ${ok})` : ''}, ${basisText(s.basis)}: the two sides have the same square but opposite signs there, where a principal root of the expected form has crossed its cut${example}.`,
+      latex: `${s.name} \\neq ${s.expected.latex}${where ? `\\quad (${s.regions.filter((r) => !r.holds).map((r) => r.condition.latex).join(',\\ ')})` : ''}`,
+    };
+  }
+  if (s.holds) {
+    return {
+      text: `${s.name} = ${s.expected.text} holds: ${s.exact ? 'the difference simplifies to 0 exactly, and ' : ''}the values agree (${basisText(s.basis)}; largest relative difference ${s.worst === null ? 'not finite' : approx(s.worst, 3)}).`,
+      latex: `${s.name} = ${s.expected.latex}`,
+    };
+  }
+  const c = s.counterexample;
+  return {
+    text: `${s.name} = ${s.expected.text} does not hold${c ? `: at ${Object.keys(c.at).length ? pointText(c.at) : 'the computed value'}, ${s.name} ${complexApprox(c.lhs, 12)} but the expected value is ${c.rhs ? complexApprox(c.rhs, 12) : 'not a finite number'}` : ''}.`,
+    latex: `${s.name} \\neq ${s.expected.latex}`,
+  };
+}
+
+function numericCheck(s: StepOf<'numeric-check'>): RenderedStep {
+  const where = s.at && Object.keys(s.at).length ? ` at ${pointText(s.at)}` : '';
+  if (s.refused === 'too-many-variables') {
+    return { text: `The numeric check of a ${s.vars}-variable integral is out of reach: nested quadrature here goes up to three variables, and a coarser rule would give a poor number rather than a check.`, latex: tex('no numeric check') };
+  }
+  if (s.refused === 'no-contour') {
+    return { text: `On the contour the record says, Re A is not positive definite${where}, and no further legal rotation of the variables by up to pi/4 makes it so: no numeric check.`, latex: tex('no numeric check') };
+  }
+  const contour = s.contour === 'rotated'
+    ? `along the rotated contour of ${s.contourOf ?? s.name} (${s.contourLabels.join(', ')}), written as the rotated integrand over real variables`
+    : 'along the real contour';
+  if (s.timedOut) return { text: `The quadrature ${contour}${where} hit its time limit after ${s.evaluations} integrand evaluations; no value.`, latex: tex('time limit') };
+  const rot = s.extraRotation
+    ? `; the integral is oscillatory there, so the contour was turned further by the legal rotation ${s.extraRotation.vars.map((v, k) => `${v} -> exp(i*(${s.extraRotation!.angles[k]!.text}))*${v}`).join(', ')} (the swept family checked at ${s.extraRotation.checked} angles), where it converges absolutely`
+    : '';
+  const value = s.value ? complexApprox(s.value, 15) : 'no value';
+  return {
+    text: `${s.name}${where} by nested trapezoidal quadrature (on a box cut where |integrand| has fallen by e^-${digits(s.truncation, 3)} at every level, the step halved until two levels agree) over ${plural(s.vars, 'variable')} ${contour}${rot}: ${value}, error estimate ${approx(s.errorEstimate ?? NaN, 3)}, ${s.evaluations} integrand evaluations, ${s.timeMs} ms. The integrand was read by evaluation only (its exponent polarized into numbers and checked against the whole integrand at 5 random points, largest relative difference ${approx(s.integrandCheck, 3)}).`,
+    latex: s.value ? `${s.name} ${complexApproxLatex(s.value, 12)}` : tex('no value'),
+  };
+}
+
+function numericAgreement(s: StepOf<'numeric-agreement'>): RenderedStep {
+  if (!s.closed) return { text: `The closed form of ${s.name} has no value here (it diverges); nothing to agree with.`, latex: tex('disagrees') };
+  return {
+    text: `Against the closed form (${complexApprox(s.closed, 15)}): relative difference ${approx(s.relativeDifference ?? NaN, 3)}, ${s.agrees ? 'within' : 'OUTSIDE'} the tolerance ${digits(s.tolerance)}: ${s.agrees ? 'agrees' : 'disagrees'}.`,
+    latex: tex(s.agrees ? 'agrees' : 'disagrees'),
+  };
+}
+
+function rotation(s: StepOf<'rotation'>): RenderedStep {
+  const wick = s.moves.some((m) => m.wick);
+  const steepest = s.moves.some((m) => m.steepest);
+  const words = s.moves.map((m) => `${m.variable} -> exp(i*(${m.angle.text}))*${m.variable}${m.wick ? `, the Wick rotation ${m.variable} = -i*tau of a time variable` : ''}${m.steepest ? `, the steepest-descent direction (where the coupling of ${m.variable} becomes real and positive)` : ''}`);
+  return {
+    text: `${wick ? 'Wick rotation: ' : steepest ? 'Rotation onto the steepest-descent direction: ' : 'Rotation: '}${words.join('; ')}. The swept family is x_j -> exp(i*t*theta_j)*x_j for t from 0 to 1.`,
+    latex: s.moves.map((m) => `${m.variable} \\to e^{i ${m.angle.latex}}\\, ${m.variable}`).join(',\\ '),
+  };
+}
+
+function legality(s: StepOf<'legality'>): RenderedStep {
+  const range = s.range ? ` The allowed angles are ${s.range.text}; two allowed choices that differ by pi differ by the orientation of the contour, hence by a sign.` : '';
+  if (s.defines) {
+    return s.legal
+      ? { text: `Allowed: the integral diverges on the real contour, so no sweep from it is involved; the rotated contour defines the integral, and it converges there (${basisText(s.basis)}).${range}`, latex: '\\operatorname{Re}\\left(D A D\\right) \\succeq 0' }
+      : { text: `Not allowed: the integral diverges on the real contour and on the rotated one too, at once at the angle given (${basisText(s.basis)}). No rotated result.${range}`, latex: '\\operatorname{Re}\\left(D A D\\right) \\not\\succeq 0' };
+  }
+  if (s.regions.length) {
+    const ok = s.regions.filter((r) => r.holds).map((r) => r.condition.text).join(' or ');
+    const bad = s.regions.filter((r) => !r.holds).map((r) => r.condition.text).join(' or ');
+    return {
+      text: `Not allowed on the whole domain: the swept family stays free of growth only for ${ok}; for ${bad} it meets growth (${basisText(s.basis)}). No rotated result; turn by less, or state the parameter's range.${range}`,
+      latex: s.regions.map((r) => `${r.holds ? '\\text{allowed}' : '\\text{not allowed}'}\\ (${r.condition.latex})`).join(';\\ '),
+    };
+  }
+  const how = s.method === 'exact' ? `decided exactly (${basisText(s.basis)})` : `checked on a grid of ${s.count} angles of the sweep (${basisText(s.basis)})${s.legal ? '' : ', the first bad angle located by bisection'}`;
+  if (s.legal) {
+    return {
+      text: `Allowed: Re(D A D) stays positive semidefinite on every contour of the swept family, so the integrand does not grow and the arcs at infinity do not contribute; ${how}.${range}`,
+      latex: '\\operatorname{Re}\\left(D(t) A D(t)\\right) \\succeq 0,\\ t \\in [0, 1]',
+    };
+  }
+  const fb = s.firstBad;
+  const first = fb?.angle ? fb.angle.text : fb?.t !== undefined ? `t ${approx(fb.t)} of the sweep (${Object.entries(fb.perVariable).map(([v, a]) => `${v} at ${a.text}`).join(', ')})` : 'an angle of the sweep';
+  const at = s.at && Object.keys(s.at).length ? ` (at ${pointText(s.at)})` : '';
+  const dir = s.direction ? `, along the real direction (${s.direction.map((x) => digits(x)).join(', ')})` : '';
+  return { text: `Not allowed: the integrand grows on the swept family, first at ${first}${at}${dir}; ${how}. No rotated result.`, latex: '\\operatorname{Re}\\left(D A D\\right) \\not\\succeq 0' };
+}
+
+function continuation(s: StepOf<'continuation'>): RenderedStep {
+  const path = s.path.map((pt) => (pt.length > 1 ? `(${pt.map((f) => f.text).join(', ')})` : pt[0]!.text)).join(' -> ');
+  const fixed = Object.keys(s.fixed).length ? ` with ${pointText(s.fixed)}${s.chosen.length ? ` (${list(s.chosen)} chosen by the record: the simplest point of the domain)` : ''}` : '';
+  return {
+    text: `Continued ${s.name} along ${path}${fixed}: ${s.steps} adaptive steps (${s.refined} refined), eigenvalues of A ${s.eigenRoute ? 'followed at every step, each square root chosen continuous with the last' : 'followed at sampled steps; the square root of det A followed through the L D L^T pivots at every step'}; det A followed as a second route with its phase unwrapped (${s.routesAgree ? 'the two routes agree' : 'WARNING: the routes disagree'}).`,
+    latex: '\\det(A)^{1/2}\\ \\text{followed continuously along the path}',
+  };
+}
+
+function continuationEvent(s: StepOf<'continuation-event'>): RenderedStep {
+  const at = pointText(s.at);
+  switch (s.event) {
+    case 'branch-point':
+      return { text: `Branch point at ${at}, passed at distance ${approx(s.distance ?? NaN, 4)} on the ${s.side} of the path (det A = 0 there, a ${s.simple ? 'simple' : 'higher-order'} zero, located by Newton's method from the closest approach at ${pointText(s.closest)}).`, latex: '\\det A = 0' };
+    case 'cut-crossed':
+      return { text: `det A crosses the negative real axis (the principal cut of 1/sqrt(det A)) at ${at}, from ${s.fromAbove ? 'above' : 'below'}: the principal root jumps there, the continued one does not.`, latex: '\\arg \\det A = \\pm\\pi' };
+    case 'convergence-lost':
+      return {
+        text: s.rotation
+          ? `The real contour stops converging at ${at} (Re A loses positive definiteness); the common rotation x -> exp(i*theta)*x with theta ${approx(s.rotation.theta)} (allowed for theta in (${digits(s.rotation.from, 4)}, ${digits(s.rotation.to, 4)}), on a grid of 721 angles) keeps the integral defined just beyond.`
+          : `The real contour stops converging at ${at}, and no common rotation angle keeps the integral defined just beyond (checked on a grid of 721 angles); the value is continued analytically only.`,
+        latex: '\\operatorname{Re} A \\not\\succ 0',
+      };
+    case 'convergence-regained':
+      return { text: `The real contour converges again from ${at}.`, latex: '\\operatorname{Re} A \\succ 0' };
+  }
+}
+
+function sheet(s: StepOf<'sheet'>): RenderedStep {
+  const words = s.sheet === 'principal'
+    ? 'the principal sheet (the end value equals the closed form with the principal 1/sqrt(det A))'
+    : 'minus the principal sheet (the end value is minus the closed form with the principal 1/sqrt(det A))';
+  return {
+    text: `At the end point ${pointText(s.at)} the continued sqrt(det A) ${complexApprox(s.continued, 10)} and the principal one ${complexApprox(s.principal, 10)}: ${s.name} ends on ${words}${s.onCut ? '; the end point lies on the cut itself, where "principal" means arg(det A) = pi' : ''}. ${s.name} ${complexApprox(s.value, 15)}${s.closed ? `, the closed form ${s.closed.text}` : ''}.`,
+    latex: s.closed ? `${s.name} = ${s.closed.latex}` : `${s.name} ${complexApproxLatex(s.value, 12)}`,
+  };
+}
+
+function comparison(s: StepOf<'comparison'>): RenderedStep {
+  const ratio = s.ratio ? s.ratio.text : complexApprox(s.ratioValue, 12);
+  return {
+    text: `${s.a}/${s.b} = ${ratio}${s.constant ? `, constant (${basisText(s.basis)})` : `; not constant (${basisText(s.basis)})`}.`,
+    latex: `\\frac{${s.a}}{${s.b}} ${s.ratio ? `= ${s.ratio.latex}` : complexApproxLatex(s.ratioValue, 12)}`,
+  };
+}
+
+/** exp(i*pi*m/4) in its simplest exact form: 1, i, -1, -i, exp(i*pi/4), exp(3*i*pi/4), exp(-i*pi/4), ... */
+function quarterPhase(m: number): string {
+  const r = ((m % 8) + 8) % 8;
+  const named: Record<number, string> = { 0: '1', 2: 'i', 4: '-1', 6: '-i' };
+  if (named[r]) return named[r]!;
+  const s = r > 4 ? r - 8 : r;
+  return s === 1 ? 'exp(i*pi/4)' : s === -1 ? 'exp(-i*pi/4)' : `exp(${s}*i*pi/4)`;
+}
+
+function comparisonVerdict(s: StepOf<'comparison-verdict'>): RenderedStep {
+  switch (s.verdict) {
+    case 'equal': return { text: 'Verdict: equal (ratio 1).', latex: `${s.a} = ${s.b}` };
+    case 'phase': return {
+      text: `Verdict: equal up to the constant phase ${s.phaseOverPiQuarter !== null ? `${quarterPhase(s.phaseOverPiQuarter)} (${s.phaseOverPiQuarter} times pi/4)` : `exp(i*theta), theta ${approx(s.phase ?? NaN, 8)}, not a multiple of pi/4`}.`,
+      latex: s.phaseOverPiQuarter !== null ? `${s.a} = e^{${s.phaseOverPiQuarter} i\\pi/4} ${s.b}` : `${s.a} = e^{i\\theta} ${s.b}`,
+    };
+    case 'different': return {
+      text: `Verdict: different${s.example ? `; for example at ${s.example.at ? pointText(s.example.at) : 'the computed values'} the ratio is ${complexApprox(s.example.ratio, 10)}` : ''}.`,
+      latex: `${s.a} \\neq ${s.b}`,
+    };
+  }
+}
+
+function derived(s: StepOf<'derived'>): RenderedStep {
+  const closed = s.closed
+    ? ` = ${s.closed.text}; this form reproduces the branch-faithful value at ${plural(s.compared, 'point')}`
+    : s.usesResults ? '; no closed form reproduced the branch-faithful value at every point checked, so the definition is kept as written' : '';
+  return {
+    text: `${s.name} = ${s.definition.text}${closed}${s.value ? `; numerically ${complexApprox(s.value, 15)}` : ''}.`,
+    latex: `${s.name} = ${(s.closed ?? s.definition).latex}`,
+  };
+}
+
+function limit(s: StepOf<'limit'>): RenderedStep {
+  const to = s.to.text;
+  const arrow = `${s.param} -> ${to}`;
+  const f = s.formula;
+  const sym = s.outcome === 'asymptotic' ? '~' : '=';
+  const latexTo = s.to.latex;
+  const lhs = s.outcome === 'asymptotic' ? `${s.name} \\sim` : `\\lim_{${s.param} \\to ${latexTo}} ${s.name} =`;
+  const checks = s.checks ? ` (checked numerically at ${plural(s.checks.count, 'point')}, largest relative difference ${approx(s.checks.worst, 3)})` : '';
+  switch (s.outcome) {
+    case 'unknown':
+      return { text: `As ${arrow}, the limit of ${s.name} is unknown: no exact expansion was found${s.value ? `; near the end point the value is ${complexApprox(s.value, 10)}, which is not a limit` : ''}.`, latex: `\\lim_{${s.param} \\to ${latexTo}} ${s.name}\\ ${tex('unknown')}` };
+    case 'divergent':
+      return { text: `As ${arrow}, ${s.name} diverges${f ? ` like ${f.text}` : ''} (${basisText(s.basis)}).`, latex: `${s.name} \\sim ${f?.latex ?? '\\infty'}` };
+    case 'oscillating':
+      return { text: `As ${arrow}, ${s.name} has no limit: it oscillates${f ? ` like ${f.text}` : ''} (${basisText(s.basis)}).`, latex: tex('no limit') };
+    default: {
+      const method: Record<StepOf<'limit'>['method'], string> = {
+        substitution: `substituting ${s.param} = ${to} in the closed form`,
+        'algebra-limit': 'the algebra package\'s limit',
+        recognised: 'a constant recognised from its values and confirmed at a larger value (checked, not proved)',
+        'read-off': 'values read off at large parameter (checked numerically only)',
+        logarithmic: 'logarithmic growth read off values at large parameter (checked numerically only)',
+        expansion: 'an exact expansion',
+        none: '',
+      };
+      const corr = s.correction ? `; next correction ${s.correction.formula ? s.correction.formula.text : `like ${s.param}^(${digits(s.correction.power, 4)})`}` : '';
+      const cterm = s.constantTerm ? `; the constant term is ${complexApprox(s.constantTerm, 10)}` : '';
+      return {
+        text: `As ${arrow}, ${s.name} ${sym} ${f?.text ?? complexApprox(s.value ?? { re: NaN, im: NaN }, 10)}, by ${method[s.method]}${checks}${corr}${cterm}.`,
+        latex: `${lhs} ${f?.latex ?? ''}`,
+      };
+    }
+  }
+}
+
 export function renderStep(step: Step): RenderedStep {
-  return { text: step.text, latex: step.latex };
+  switch (step.kind) {
+    case 'param': return {
+      text: `${list(step.names)} ${step.names.length > 1 ? 'are' : 'is'} ${DOMAIN_HELP[step.domain]}.`,
+      latex: `${step.names.join(', ')} \\in ${{ positive: '(0, \\infty)', negative: '(-\\infty, 0)', real: '\\mathbb{R}', complex: '\\mathbb{C}', nonzero: '\\mathbb{R} \\setminus \\{0\\}' }[step.domain]}`,
+    };
+    case 'note': return { text: step.text, latex: '' };
+    case 'quadratic-form': {
+      const how = { derivatives: 'by exact differentiation (A = -d^2S/dx dx, J = dS/dx, c = S at x = 0), confirmed against the term-by-term expansion', expansion: 'from the term-by-term expansion', numbers: 'read off by expanding the exponent', exact: 'by exact expansion in rational arithmetic (every entry a rational function of the parameters)' }[step.source];
+      return {
+        text: `${step.rotated ? 'New coupling: ' : ''}The exponent is S = -1/2 x^T A x + J^T x + c in x = (${step.vars.join(', ')}), with A = ${matrixText(step.A)}, J = (${step.J.map((e) => e.text).join(', ')}), c = ${step.c.text}, ${how}.`,
+        latex: `A = ${matrixLatex(step.A)},\\quad J = \\begin{pmatrix} ${step.J.map((e) => e.latex).join(' \\\\ ')} \\end{pmatrix},\\quad c = ${step.c.latex}`,
+      };
+    }
+    case 'convergence': return convergence(step);
+    case 'branch': return branch(step);
+    case 'fresnel-phase': {
+      const sig = step.signature.positive - step.signature.negative;
+      return {
+        text: `A = -iB with B real symmetric of signature (${step.signature.positive}, ${step.signature.negative}), sig B = ${sig} (${basisText(step.basis)}): det(A)^(-1/2) = |det B|^(-1/2) exp(i*pi*sig/4), phase ${quarterPhase(sig)}.`,
+        latex: `\\det(A)^{-1/2} = \\left|\\det B\\right|^{-1/2} e^{i\\pi \\operatorname{sig}(B)/4},\\quad \\operatorname{sig}(B) = ${sig}`,
+      };
+    }
+    case 'result': return result(step);
+    case 'expect': return expect(step);
+    case 'numeric-check': return numericCheck(step);
+    case 'numeric-agreement': return numericAgreement(step);
+    case 'rotation': return rotation(step);
+    case 'legality': return legality(step);
+    case 'jacobian': return { text: `Jacobian dx = ${step.factor.text} dy (exp(i*(${step.totalAngle.text})), the product of the rotation factors).`, latex: `dx = ${step.factor.latex}\\, dy` };
+    case 'continuation': return continuation(step);
+    case 'continuation-event': return continuationEvent(step);
+    case 'sheet': return sheet(step);
+    case 'comparison': return comparison(step);
+    case 'comparison-verdict': return comparisonVerdict(step);
+    case 'derived': return derived(step);
+    case 'limit': return limit(step);
+  }
 }

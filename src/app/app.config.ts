@@ -1,5 +1,5 @@
 import { ApplicationConfig, provideBrowserGlobalErrorListeners } from '@angular/core';
-import { provideHttpClient, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
+import { provideHttpClient, withFetch, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
 import { provideRouter, withComponentInputBinding, withInMemoryScrolling } from '@angular/router';
 
 import { routes } from './app.routes';
@@ -10,7 +10,8 @@ export const appConfig: ApplicationConfig = {
   providers: [
     provideBrowserGlobalErrorListeners(),
     provideRouter(routes, withComponentInputBinding(), withInMemoryScrolling({ scrollPositionRestoration: 'top' })),
-    // Default cookie/header names: XSRF-TOKEN cookie, X-XSRF-TOKEN header.
-    provideHttpClient(withXsrfConfiguration({}), withInterceptors([loadingInterceptor, sessionInterceptor])),
+    // Default cookie/header names: XSRF-TOKEN cookie, X-XSRF-TOKEN header. The fetch backend
+    // streams response text (live evaluation's server-sent events) and supports keepalive.
+    provideHttpClient(withFetch(), withXsrfConfiguration({}), withInterceptors([loadingInterceptor, sessionInterceptor])),
   ],
 };

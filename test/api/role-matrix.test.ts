@@ -52,6 +52,8 @@ const CASES: Case[] = [
   { name: 'POST invitations', method: 'POST', path: (f) => `/api/groups/${f.groupId}/invitations`, body: () => ({ email: 'invitee@matrix.test', role: 'reader' }), expect: ownerOnly(201) },
   { name: 'GET evaluation (none stored yet)', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/evaluation`, expect: { anon: 401, outsider: 404, admin: 404, reader: 404, reviewer: 404, author: 404, owner: 404 } },
   { name: 'POST evaluation', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/evaluation`, expect: read },
+  { name: 'GET stored report', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/report`, expect: read },
+  { name: 'POST stored report', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/report`, body: () => ({}), expect: read },
   { name: 'GET reviews of a worksheet', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/reviews`, expect: read },
   { name: 'POST review request', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/reviews`, body: (f) => ({ statementKey: 'k', reviewerIds: [f.ids['reviewer']] }), expect: authors(201) },
   { name: 'GET group reviews', method: 'GET', path: (f) => `/api/groups/${f.groupId}/reviews`, expect: read },

@@ -2,6 +2,7 @@
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
+import { spawnSync } from 'node:child_process';
 import { parseWorksheet } from '../../cas/index.js';
 
 const GOOD = [
@@ -82,4 +83,17 @@ test('fuzz: 2,000 random and mutated worksheets never crash or hang, and every e
     }
   }), { numRuns: 2000, seed: 2024 });
   assert.equal(count, 2000);
+});
+
+test('the parser compiled ahead of time is current with cas/lang/line.peggy', () => {
+  const r = spawnSync(process.execPath, ['scripts/build-grammar.mjs', '--check'], { encoding: 'utf8' });
+  assert.equal(r.status, 0, r.stderr);
+});
+
+test('parsing is linear in bracket depth: depth 64 (the limit) parses at once, and d and e are ordinary names', () => {
+  const deep = `let F = ${'('.repeat(64)}1${')'.repeat(64)}^2`;
+  const r = parseWorksheet(`param d, e : positive\nintegral Z = exp(-d*e*x^2) d(x)\n${deep}`);
+  assert.deepEqual(r.errors, []);
+  const z = r.lines[1]!;
+  assert.ok(z.ok && z.statement.kind === 'integral' && z.statement.vars.map((v) => v.name).join() === 'x');
 });

@@ -183,8 +183,9 @@ test('the owner withdraws an invitation; its link then says so', async () => {
   await page.getByTestId('invite-email').fill(invited);
   await page.getByTestId('invite-submit').click();
   const row = page.getByTestId('pending-invitation').filter({ hasText: invited });
-  page.once('dialog', (dialog) => void dialog.accept());
   await row.getByTestId('revoke-invitation').click();
+  // The question is a Material dialog now, not the browser's confirm().
+  await page.getByTestId('confirm-dialog').getByTestId('confirm-accept').click();
   await row.waitFor({ state: 'detached' });
   const link = linkIn(await mailTo(invited, /invites you/), 'invitations');
   await page.goto(link);

@@ -39,10 +39,10 @@ export class WorksheetsApi {
     return this.http.get<{ worksheet: WorksheetDto }>(`/api/worksheets/${id}`).pipe(map((r) => r.worksheet));
   }
 
-  /** A stale baseVersion fails with 409 and the current version (see versionConflict). */
-  save(id: number, body: SaveWorksheetBody): Observable<WorksheetDto> {
+  /** keepalive: the request outlives the page (used on unload). A stale baseVersion fails with 409 and the current version (see versionConflict). */
+  save(id: number, body: SaveWorksheetBody, options: { keepalive?: boolean } = {}): Observable<WorksheetDto> {
     return this.http
-      .put<{ worksheet: WorksheetDto }>(`/api/worksheets/${id}`, body)
+      .put<{ worksheet: WorksheetDto }>(`/api/worksheets/${id}`, body, options)
       .pipe(map((r) => r.worksheet));
   }
 

@@ -8,6 +8,7 @@ import { AuthStore } from '../../core/auth/auth-store';
 import { apiErrorMessage } from '../../core/http/api-error';
 import { Notifier } from '../../core/notify/notifier';
 import { AdminApi } from '../admin-api';
+import { Confirmer } from '../../core/dialogs/confirmer';
 
 /** Site administration: every account, with a switch to disable or enable it. */
 @Component({
@@ -18,6 +19,7 @@ import { AdminApi } from '../admin-api';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AdminUsers implements OnInit {
+  private readonly confirmer = inject(Confirmer);
   private readonly api = inject(AdminApi);
   private readonly notifier = inject(Notifier);
   private readonly auth = inject(AuthStore);
@@ -57,7 +59,13 @@ export class AdminUsers implements OnInit {
 
   protected toggle(user: UserDto): void {
     const disabled = !user.disabled;
-    if (disabled && !window.confirm(`Disable the account of ${user.displayName}? They can no longer sign in.`)) return;
+    if (!disabled) return this.setDisabled(user, disabled);
+    this.confirmer
+      .ask({ title: 'Disable this account?', message: `Disable the account of ${user.displayName}? They can no longer sign in.`, confirm: 'Disable', danger: true })
+      .subscribe((ok) => ok && this.setDisabled(user, disabled));
+  }
+
+  private setDisabled(user: UserDto, disabled: boolean): void {
     this.busy.set(user.id);
     this.api.setDisabled(user.id, disabled).subscribe({
       next: (updated) => {

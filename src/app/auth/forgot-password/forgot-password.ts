@@ -1,19 +1,18 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { resetRequestBody } from '@shared/collaboration';
 import { AuthStore } from '../../core/auth/auth-store';
-import { applySchemaIssues, fieldMessage } from '../../core/forms/schema-errors';
+import { FormField } from '../../core/forms/form-field';
+import { applySchemaIssues } from '../../core/forms/schema-errors';
 import { apiErrorMessage } from '../../core/http/api-error';
 import { AuthFrame } from '../auth-frame/auth-frame';
 
 /** /forgot-password — ask for a reset link by mail. */
 @Component({
   selector: 'app-forgot-password',
-  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatButtonModule, RouterLink, AuthFrame],
+  imports: [ReactiveFormsModule, MatButtonModule, RouterLink, AuthFrame, FormField],
   templateUrl: './forgot-password.html',
   styleUrls: ['../sign-in/sign-in.scss', '../outcome.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -21,7 +20,6 @@ import { AuthFrame } from '../auth-frame/auth-frame';
 export class ForgotPassword {
   private readonly auth = inject(AuthStore);
 
-  protected readonly message = fieldMessage;
   protected readonly form = inject(NonNullableFormBuilder).group({
     email: ['', [Validators.required]],
   });

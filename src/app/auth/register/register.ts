@@ -1,18 +1,17 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { LIMITS, registerBody } from '@shared/api';
 import { AuthStore } from '../../core/auth/auth-store';
-import { applySchemaIssues, fieldMessage } from '../../core/forms/schema-errors';
+import { FormField } from '../../core/forms/form-field';
+import { applySchemaIssues } from '../../core/forms/schema-errors';
 import { apiErrorDetails, apiErrorMessage } from '../../core/http/api-error';
 import { AuthFrame } from '../auth-frame/auth-frame';
 
 @Component({
   selector: 'app-register',
-  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatButtonModule, RouterLink, AuthFrame],
+  imports: [ReactiveFormsModule, MatButtonModule, RouterLink, AuthFrame, FormField],
   templateUrl: './register.html',
   styleUrl: '../sign-in/sign-in.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -22,7 +21,6 @@ export class Register {
   private readonly router = inject(Router);
 
   protected readonly limits = LIMITS;
-  protected readonly message = fieldMessage;
   protected readonly form = inject(NonNullableFormBuilder).group({
     email: ['', [Validators.required]],
     displayName: ['', [Validators.required]],

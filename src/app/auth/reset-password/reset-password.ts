@@ -1,20 +1,19 @@
 import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { LIMITS } from '@shared/api';
 import { resetConfirmBody } from '@shared/collaboration';
 import { AuthStore } from '../../core/auth/auth-store';
-import { applySchemaIssues, fieldMessage } from '../../core/forms/schema-errors';
+import { FormField } from '../../core/forms/form-field';
+import { applySchemaIssues } from '../../core/forms/schema-errors';
 import { apiErrorCode, apiErrorMessage } from '../../core/http/api-error';
 import { AuthFrame } from '../auth-frame/auth-frame';
 
 /** /reset-password/:token — the page the reset mail links to: choose a new password. */
 @Component({
   selector: 'app-reset-password',
-  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatButtonModule, RouterLink, AuthFrame],
+  imports: [ReactiveFormsModule, MatButtonModule, RouterLink, AuthFrame, FormField],
   templateUrl: './reset-password.html',
   styleUrls: ['../sign-in/sign-in.scss', '../outcome.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -26,7 +25,6 @@ export class ResetPassword {
   readonly token = input.required<string>();
 
   protected readonly limits = LIMITS;
-  protected readonly message = fieldMessage;
   protected readonly form = inject(NonNullableFormBuilder).group({
     password: ['', [Validators.required]],
     repeat: ['', [Validators.required]],

@@ -1,18 +1,17 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatInputModule } from '@angular/material/input';
 import { ActivatedRoute, Router, RouterLink } from '@angular/router';
 import { loginBody } from '@shared/api';
 import { AuthStore } from '../../core/auth/auth-store';
-import { applySchemaIssues, fieldMessage } from '../../core/forms/schema-errors';
+import { FormField } from '../../core/forms/form-field';
+import { applySchemaIssues } from '../../core/forms/schema-errors';
 import { apiErrorMessage } from '../../core/http/api-error';
 import { AuthFrame } from '../auth-frame/auth-frame';
 
 @Component({
   selector: 'app-sign-in',
-  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatButtonModule, RouterLink, AuthFrame],
+  imports: [ReactiveFormsModule, MatButtonModule, RouterLink, AuthFrame, FormField],
   templateUrl: './sign-in.html',
   styleUrl: './sign-in.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -28,7 +27,6 @@ export class SignIn {
   });
   protected readonly submitting = signal(false);
   protected readonly error = signal<string | null>(null);
-  protected readonly message = fieldMessage;
 
   protected submit(): void {
     if (this.submitting()) return;

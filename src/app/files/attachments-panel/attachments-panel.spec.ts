@@ -2,6 +2,8 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
 import { AttachmentsPanel } from './attachments-panel';
+import { Confirmer } from '../../core/dialogs/confirmer';
+import { of } from 'rxjs';
 
 const csv = { id: 4, fileName: 'table.csv', mediaType: 'text/csv', size: 2048, uploadedBy: 'Tobiah Osei', createdAt: '2026-03-01T10:00:00Z' };
 
@@ -71,7 +73,7 @@ describe('AttachmentsPanel', () => {
 
   it('deletes after asking', async () => {
     const { fixture, el } = await render(true);
-    vi.spyOn(window, 'confirm').mockReturnValue(true);
+    vi.spyOn(TestBed.inject(Confirmer), 'ask').mockReturnValue(of(true));
     el.querySelector<HTMLButtonElement>('[data-testid="attachment-delete"]')!.click();
     const req = http.expectOne('/api/worksheets/7/attachments/4');
     expect(req.request.method).toBe('DELETE');

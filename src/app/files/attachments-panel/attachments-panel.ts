@@ -5,6 +5,7 @@ import { apiErrorMessage } from '../../core/http/api-error';
 import { Notifier } from '../../core/notify/notifier';
 import { FilesApi, formatSize, type AttachmentDto } from '../files-api';
 import { uploadErrorMessage } from '../upload-error';
+import { Confirmer } from '../../core/dialogs/confirmer';
 
 /** Supporting files of a worksheet: list with downloads; upload and delete for authors and owners. */
 @Component({
@@ -15,6 +16,7 @@ import { uploadErrorMessage } from '../upload-error';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AttachmentsPanel {
+  private readonly confirmer = inject(Confirmer);
   private readonly api = inject(FilesApi);
   private readonly notifier = inject(Notifier);
 
@@ -72,7 +74,12 @@ export class AttachmentsPanel {
   }
 
   protected remove(a: AttachmentDto): void {
-    if (!window.confirm(`Delete the file “${a.fileName}” from this worksheet?`)) return;
+    this.confirmer
+      .ask({ title: 'Delete this file?', message: `Delete the file “${a.fileName}” from this worksheet?`, confirm: 'Delete', danger: true })
+      .subscribe((ok) => ok && this.removeNow(a));
+  }
+
+  private removeNow(a: AttachmentDto): void {
     this.api.removeAttachment(this.worksheetId(), a.id).subscribe({
       next: () => {
         this.files.update((list) => list.filter((x) => x.id !== a.id));

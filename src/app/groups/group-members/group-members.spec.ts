@@ -4,6 +4,8 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import type { GroupRole, MemberDto } from '@shared/api';
 import type { InvitationDto } from '@shared/collaboration';
 import { GroupMembers } from './group-members';
+import { Confirmer } from '../../core/dialogs/confirmer';
+import { of } from 'rxjs';
 
 const members: MemberDto[] = [
   { userId: 1, email: 'owner@demo.sheetwise.test', displayName: 'Oda Owner', role: 'owner' },
@@ -169,10 +171,10 @@ describe('GroupMembers', () => {
   });
 
   it('withdraws an invitation with DELETE after asking', async () => {
-    const confirm = vi.spyOn(window, 'confirm').mockReturnValue(true);
+    const confirm = vi.spyOn(TestBed.inject(Confirmer), 'ask').mockReturnValue(of(true));
     const { fixture, el } = await open('owner');
     el.querySelector<HTMLButtonElement>('[data-testid="revoke-invitation"]')!.click();
-    expect(confirm).toHaveBeenCalledWith(expect.stringContaining('waiting@lab.test'));
+    expect(confirm).toHaveBeenCalledWith(expect.objectContaining({ message: expect.stringContaining('waiting@lab.test'), danger: true }));
     const req = http.expectOne('/api/groups/5/invitations/11');
     expect(req.request.method).toBe('DELETE');
     req.flush(null, { status: 204, statusText: 'No Content' });
@@ -182,7 +184,7 @@ describe('GroupMembers', () => {
   });
 
   it('keeps the invitation when the owner does not confirm', async () => {
-    const confirm = vi.spyOn(window, 'confirm').mockReturnValue(false);
+    const confirm = vi.spyOn(TestBed.inject(Confirmer), 'ask').mockReturnValue(of(false));
     const { el } = await open('owner');
     el.querySelector<HTMLButtonElement>('[data-testid="revoke-invitation"]')!.click();
     http.expectNone('/api/groups/5/invitations/11');

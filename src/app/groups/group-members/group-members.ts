@@ -17,6 +17,7 @@ import { Notifier } from '../../core/notify/notifier';
 import { InvitationsApi } from '../../invitations/invitations-api';
 import { GroupsApi } from '../groups-api';
 import { ROLE_DESCRIPTIONS } from '../roles';
+import { Confirmer } from '../../core/dialogs/confirmer';
 
 export { ROLE_DESCRIPTIONS };
 
@@ -41,6 +42,7 @@ export { ROLE_DESCRIPTIONS };
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class GroupMembers {
+  private readonly confirmer = inject(Confirmer);
   private readonly api = inject(GroupsApi);
   private readonly invitationsApi = inject(InvitationsApi);
   private readonly notifier = inject(Notifier);
@@ -179,7 +181,12 @@ export class GroupMembers {
   }
 
   protected revoke(invitation: InvitationDto): void {
-    if (!window.confirm(`Withdraw the invitation to ${invitation.email}? Its link stops working.`)) return;
+    this.confirmer
+      .ask({ title: 'Withdraw this invitation?', message: `Withdraw the invitation to ${invitation.email}? Its link stops working.`, confirm: 'Withdraw', danger: true })
+      .subscribe((ok) => ok && this.revokeNow(invitation));
+  }
+
+  private revokeNow(invitation: InvitationDto): void {
     this.busyInvitation.set(invitation.id);
     this.invitationsApi.revoke(this.groupId(), invitation.id).subscribe({
       next: () => {
@@ -213,7 +220,12 @@ export class GroupMembers {
   }
 
   protected remove(member: MemberDto): void {
-    if (!window.confirm(`Remove ${member.displayName} from this group?`)) return;
+    this.confirmer
+      .ask({ title: 'Remove this member?', message: `Remove ${member.displayName} from this group?`, confirm: 'Remove', danger: true })
+      .subscribe((ok) => ok && this.removeNow(member));
+  }
+
+  private removeNow(member: MemberDto): void {
     this.busyUser.set(member.userId);
     this.api.removeMember(this.groupId(), member.userId).subscribe({
       next: () => {

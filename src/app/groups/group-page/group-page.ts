@@ -18,6 +18,7 @@ import { GroupReviews } from '../../reviews/group-reviews/group-reviews';
 import { GroupMembers } from '../group-members/group-members';
 import { GroupsApi } from '../groups-api';
 import { WorksheetTable } from '../worksheet-table/worksheet-table';
+import { Confirmer } from '../../core/dialogs/confirmer';
 
 @Component({
   selector: 'app-group-page',
@@ -39,6 +40,7 @@ import { WorksheetTable } from '../worksheet-table/worksheet-table';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class GroupPage {
+  private readonly confirmer = inject(Confirmer);
   private readonly api = inject(GroupsApi);
   private readonly auth = inject(AuthStore);
   private readonly router = inject(Router);
@@ -113,10 +115,12 @@ export class GroupPage {
   protected deleteGroup(): void {
     const group = this.group();
     if (!group) return;
-    const ok = window.confirm(
-      `Delete the group “${group.name}” with its ${group.worksheetCount} worksheet(s)? This cannot be undone.`,
-    );
-    if (!ok) return;
+    this.confirmer
+      .ask({ title: 'Delete this group?', message: `Delete the group “${group.name}” with its ${group.worksheetCount} worksheet(s)? This cannot be undone.`, confirm: 'Delete the group', danger: true })
+      .subscribe((ok) => ok && this.deleteNow(group));
+  }
+
+  private deleteNow(group: GroupSummaryDto): void {
     this.api.remove(group.id).subscribe({
       next: () => {
         this.notifier.info(`Group “${group.name}” deleted.`);

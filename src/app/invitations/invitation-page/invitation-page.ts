@@ -3,15 +3,14 @@ import { ChangeDetectionStrategy, Component, computed, inject, input, signal } f
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { catchError, forkJoin, of, switchMap, tap } from 'rxjs';
 import { LIMITS, loginBody, registerBody } from '@shared/api';
 import type { InvitationPreviewDto } from '@shared/collaboration';
 import { AuthFrame } from '../../auth/auth-frame/auth-frame';
 import { AuthStore } from '../../core/auth/auth-store';
-import { applySchemaIssues, fieldMessage } from '../../core/forms/schema-errors';
+import { FormField } from '../../core/forms/form-field';
+import { applySchemaIssues } from '../../core/forms/schema-errors';
 import { apiErrorCode, apiErrorDetails, apiErrorMessage } from '../../core/http/api-error';
 import { Notifier } from '../../core/notify/notifier';
 import { ROLE_DESCRIPTIONS } from '../../groups/roles';
@@ -34,7 +33,7 @@ const existingAccountBody = loginBody.pick({ password: true });
 /** /invitations/:token — the page the invitation mail links to; no sign-in needed to open it. */
 @Component({
   selector: 'app-invitation-page',
-  imports: [DatePipe, ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, RouterLink, AuthFrame],
+  imports: [DatePipe, ReactiveFormsModule, MatButtonModule, RouterLink, AuthFrame, FormField],
   templateUrl: './invitation-page.html',
   styleUrls: ['../../auth/sign-in/sign-in.scss', './invitation-page.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -49,7 +48,6 @@ export class InvitationPage {
   readonly token = input.required<string>();
 
   protected readonly limits = LIMITS;
-  protected readonly message = fieldMessage;
   protected readonly descriptions = ROLE_DESCRIPTIONS;
   protected readonly invitation = signal<InvitationPreviewDto | null>(null);
   protected readonly loading = signal(true);

@@ -2,6 +2,8 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
 import { RefereeLinks } from './referee-links';
+import { Confirmer } from '../../core/dialogs/confirmer';
+import { of } from 'rxjs';
 
 describe('RefereeLinks', () => {
   let http: HttpTestingController;
@@ -58,7 +60,7 @@ describe('RefereeLinks', () => {
 
   it('withdraws a link', async () => {
     const { fixture, el } = await render();
-    vi.spyOn(window, 'confirm').mockReturnValue(true);
+    vi.spyOn(TestBed.inject(Confirmer), 'ask').mockReturnValue(of(true));
     el.querySelector<HTMLButtonElement>('[data-testid="referee-revoke"]')!.click();
     const req = http.expectOne('/api/worksheets/7/referee-links/1');
     expect(req.request.method).toBe('DELETE');

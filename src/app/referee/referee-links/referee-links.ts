@@ -6,6 +6,7 @@ import { MatInputModule } from '@angular/material/input';
 import { apiErrorMessage } from '../../core/http/api-error';
 import { Notifier } from '../../core/notify/notifier';
 import { REFEREE_DAYS, RefereeApi, type CreatedRefereeLink, type RefereeLinkDto } from '../referee-api';
+import { Confirmer } from '../../core/dialogs/confirmer';
 
 /** Referee links of a worksheet: create one for the current version, copy it once, revoke. */
 @Component({
@@ -16,6 +17,7 @@ import { REFEREE_DAYS, RefereeApi, type CreatedRefereeLink, type RefereeLinkDto 
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class RefereeLinks {
+  private readonly confirmer = inject(Confirmer);
   private readonly api = inject(RefereeApi);
   private readonly notifier = inject(Notifier);
 
@@ -86,7 +88,12 @@ export class RefereeLinks {
   }
 
   protected revoke(l: RefereeLinkDto): void {
-    if (!window.confirm(`Withdraw the referee link to version ${l.version}? Whoever has it can no longer open it.`)) return;
+    this.confirmer
+      .ask({ title: 'Withdraw this link?', message: `Withdraw the referee link to version ${l.version}? Whoever has it can no longer open it.`, confirm: 'Withdraw', danger: true })
+      .subscribe((ok) => ok && this.revokeNow(l));
+  }
+
+  private revokeNow(l: RefereeLinkDto): void {
     this.api.revoke(this.worksheetId(), l.id).subscribe({
       next: () => {
         if (this.created()?.id === l.id) this.created.set(null);

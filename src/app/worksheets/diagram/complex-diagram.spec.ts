@@ -34,7 +34,7 @@ describe('ComplexDiagram', () => {
     expect(el.querySelector('svg')!.getAttribute('aria-describedby')).toBe(table.id);
     const text = table.textContent!;
     expect(text).toContain('Real contour');
-    expect(text).toContain('the negative real axis');
+    expect(text).toContain('Principal cut of √');
     expect(text).toContain('Eigenvalue λ3');
   });
 
@@ -53,6 +53,13 @@ describe('ComplexDiagram', () => {
     expect(legend(el)).toContain('Swept sector');
     expect(el.querySelector('[data-testid="export-svg"]')).not.toBeNull();
     expect(el.querySelector('[data-testid="export-png"]')).not.toBeNull();
+  });
+
+  it('draws only what the report gives: no diagram data, nothing drawn', () => {
+    const { diagram: _, ...bare } = z3;
+    expect(diagramFor(bare)).toBeNull();
+    expect(diagramFor({ ...z3, diagram: { contours: [], sectors: [], cuts: [], paths: [], tracks: [], eigenvalues: [] } })).toBeNull();
+    expect(diagramFor(z3)).toBe(z3.diagram);
   });
 
   it('says what to select when the statement has nothing to draw', async () => {

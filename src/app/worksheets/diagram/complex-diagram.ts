@@ -389,7 +389,7 @@ function legendOf(data: DiagramData | null): LegendItem[] {
   if (data.contours.some((c) => c.role === 'real')) items.push({ key: 'contour', label: 'Real contour' });
   if (data.contours.some((c) => c.role !== 'real')) items.push({ key: 'rotated', label: 'Rotated contour' });
   if (data.sectors.length) items.push({ key: 'sector', label: 'Swept sector' });
-  if (data.cuts.length) items.push({ key: 'cut', label: 'Principal cut of √' });
+  if (data.cuts.length) items.push({ key: 'cut', label: data.cuts[0].label });
   if (data.paths.length) items.push({ key: 'continuation', label: 'Continuation path' });
   if (data.paths.some((p) => p.events.length)) items.push({ key: 'event', label: 'Event (step number)' });
   if (data.tracks.length) items.push({ key: 'track', label: 'Eigenvalue track' });

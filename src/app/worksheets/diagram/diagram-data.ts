@@ -3,48 +3,37 @@ import type { ComplexValue, StatementReport } from '@shared/evaluation';
 
 export type DiagramStatement = StatementReport & WithDiagram;
 
-/** Statement kinds that have something to draw. */
-const DRAWN = new Set<StatementReport['kind']>(['integral', 'rotate', 'continue', 'compare', 'verify']);
-
 /**
- * What to draw for a statement: the core's diagram when it sends one; otherwise, for an
- * integral, the real contour, the principal cut of the square root and the eigenvalues of A
- * taken from the step record. Null when there is nothing to draw.
+ * What to draw for a statement: exactly the core's diagram, or null when it sends none or an
+ * empty one. Nothing is made up here (no default contour, cut or eigenvalues from the steps):
+ * the client draws only what the report gives.
  */
 export function diagramFor(st: DiagramStatement | null): DiagramData | null {
-  if (!st || !DRAWN.has(st.kind)) return null;
-  const given = st.diagram;
-  const eigenvalues = given?.eigenvalues?.length
-    ? given.eigenvalues
-    : (st.steps.find((s) => s.eigenvalues?.length)?.eigenvalues ?? []);
-  const data: DiagramData = {
-    contours: given?.contours ?? [],
-    sectors: given?.sectors ?? [],
-    cuts: given?.cuts ?? [],
-    paths: given?.paths ?? [],
-    tracks: given?.tracks ?? [],
-    eigenvalues,
-  };
-  if (!data.contours.length && st.kind === 'integral') {
-    data.contours = [{ label: 'Real contour', role: 'real', points: [{ re: -1, im: 0 }, { re: 1, im: 0 }] }];
-  }
-  if (!data.cuts.length && (eigenvalues.length || data.contours.length || data.paths.length || data.tracks.length)) {
-    data.cuts = [{ label: 'Principal cut of √', points: [{ re: 0, im: 0 }, { re: -Infinity, im: 0 }] }];
-  }
-  const empty =
-    !data.contours.length && !data.sectors.length && !data.paths.length && !data.tracks.length && !eigenvalues.length;
-  return empty ? null : data;
+  const d = st?.diagram;
+  if (!d) return null;
+  const empty = !d.contours.length && !d.sectors.length && !d.paths.length && !d.tracks.length && !d.eigenvalues.length && !d.cuts.length;
+  return empty ? null : d;
+}
+
+/** The statement whose plane is drawn: the selected one, or the nearest drawable one before it. */
+export function drawnStatement(selected: StatementReport | null, list: readonly StatementReport[]): StatementReport | null {
+  if (selected && diagramFor(selected)) return selected;
+  const before = list.filter((s) => (selected ? s.line <= selected.line : true) && diagramFor(s));
+  return before[before.length - 1] ?? list.find((s) => diagramFor(s)) ?? null;
 }
 
 export function formatComplex(z: ComplexValue, digits = 3): string {
   const re = round(z.re, digits);
   const im = round(z.im, digits);
-  if (im === 0) return `${re}`.replace(/^-/, '−');
-  if (re === 0) return `${im === 1 ? '' : im === -1 ? '−' : im}i`.replace(/^-/, '−');
+  if (im === 0) return minus(`${re}`);
+  if (re === 0) return minus(`${im === 1 ? '' : im === -1 ? '−' : im}i`);
   const sign = im < 0 ? '−' : '+';
   const abs = Math.abs(im);
-  return `${re} ${sign} ${abs === 1 ? '' : abs}i`.replace(/^-/, '−');
+  return minus(`${re} ${sign} ${abs === 1 ? '' : abs}i`);
 }
+
+/** A leading minus sign set as the typographic one. */
+const minus = (s: string) => (s.startsWith('-') ? `−${s.slice(1)}` : s);
 
 function round(x: number, digits: number): number {
   const r = Number(x.toPrecision(digits));

@@ -15,7 +15,8 @@ import type * as MonacoNs from 'monaco-editor/editor';
 import { ThemeStore } from '../../core/theme/theme-store';
 import { loadMonaco } from './monaco-loader';
 import type { Monaco } from './monaco-setup';
-import { DARK_THEME, LANGUAGE_ID, LIGHT_THEME, resultHovers } from './sheetwise-language';
+import type { WorksheetSymbols } from '@shared/evaluation';
+import { DARK_THEME, LANGUAGE_ID, LIGHT_THEME, editorFacts } from './sheetwise-language';
 
 /** A problem to show in the editor at its line and column. */
 export interface EditorProblem {
@@ -77,6 +78,8 @@ export class CodeEditor {
   readonly problems = input<EditorProblem[]>([]);
   /** One-line results by name, shown on hover. */
   readonly hovers = input<Map<string, string>>(new Map());
+  /** The names the latest report declares, offered in completions and explained on hover. */
+  readonly symbols = input<WorksheetSymbols | null>(null);
   readonly ariaLabel = input('Worksheet source');
 
   readonly valueChange = output<string>();
@@ -97,7 +100,7 @@ export class CodeEditor {
     let destroyed = false;
     destroyRef.onDestroy(() => {
       destroyed = true;
-      if (this.model) resultHovers.delete(this.model.uri.toString());
+      if (this.model) editorFacts.delete(this.model.uri.toString());
       this.editor?.dispose();
       this.model?.dispose();
     });
@@ -126,8 +129,8 @@ export class CodeEditor {
       if (this.ready()) untracked(() => this.applyProblems(problems));
     });
     effect(() => {
-      const hovers = this.hovers();
-      if (this.ready() && this.model) resultHovers.set(this.model.uri.toString(), hovers);
+      const facts = { results: this.hovers(), symbols: this.symbols() };
+      if (this.ready() && this.model) editorFacts.set(this.model.uri.toString(), facts);
     });
     effect(() => {
       const dark = this.theme.dark();
@@ -175,6 +178,8 @@ export class CodeEditor {
       accessibilitySupport: 'auto',
       fixedOverflowWidgets: true,
       quickSuggestions: { other: true, comments: false, strings: false },
+      // Enter always ends the line; Tab accepts a completion.
+      acceptSuggestionOnEnter: 'off',
     });
     const { KeyMod, KeyCode } = monaco;
     this.editor.addAction({
@@ -213,7 +218,7 @@ export class CodeEditor {
           .map((m) => ({ line: m.startLineNumber, column: m.startColumn, message: m.message })),
     };
     Object.assign(host, hooks);
-    resultHovers.set(uri.toString(), this.hovers());
+    editorFacts.set(uri.toString(), { results: this.hovers(), symbols: this.symbols() });
     this.ready.set(true);
   }
 

@@ -1,5 +1,9 @@
 // The worksheet language (.swk) for the editor: tokens, our two themes, completion and hover.
+// Every word list comes from shared/language.ts; declared names come from the report.
 import type * as MonacoNs from 'monaco-editor/editor';
+import type { WorksheetSymbols } from '@shared/evaluation';
+import { CLAUSE_WORDS, CONSTANT_NAMES, DOMAINS, FUNCTION_NAMES, STATEMENT_KEYWORDS } from '@shared/language';
+import { completionContext, completionEntries, hoverMarkdown, type CompletionKind } from './completion-source';
 
 type Monaco = typeof MonacoNs;
 
@@ -7,56 +11,14 @@ export const LANGUAGE_ID = 'sheetwise';
 export const LIGHT_THEME = 'sheetwise-light';
 export const DARK_THEME = 'sheetwise-dark';
 
-export const KEYWORDS = [
-  'param', 'integral', 'rotate', 'continue', 'compare', 'verify', 'expect', 'let', 'limit', 'note',
-  'along', 'as', 'at', 'with', 'steepest',
-] as const;
-export const DOMAIN_WORDS = ['positive', 'negative', 'real', 'complex', 'nonzero'] as const;
-const FUNCTIONS = ['exp', 'sqrt', 'log', 'sin', 'cos', 'tan', 'sinh', 'cosh', 'tanh', 'atan', 'abs', 're', 'im', 'arg', 'conj'];
-const CONSTANTS = ['i', 'pi', 'e'];
-
-/** Short descriptions shown with the keyword completions. */
-const KEYWORD_HELP: Record<string, string> = {
-  param: 'Declare a parameter and its domain: param k : positive',
-  integral: 'A Gaussian integral with its integration variables: integral Z = exp(...) d(x, y)',
-  rotate: 'Rotate a variable of an integral: rotate Z : y -> exp(-i*pi/2)*y as ZL',
-  continue: 'Continue a result along a path in a parameter: continue Z : lam along 0 -> 2*i',
-  compare: 'Compare two results: compare ZL with Z',
-  verify: 'Check a result numerically at a parameter point: verify Z at k = 2',
-  expect: 'State the expected value; a mismatch is a problem: expect Z = 2*pi/k',
-  let: 'Name a derived quantity: let F = -log(Z)',
-  limit: 'A limit of a result: limit Z : lam -> 0',
-  note: 'Free text kept with the record: note "..."',
-};
-
-/** Names declared in a source: params, integration variables and result names. */
-export interface DeclaredNames {
-  params: string[];
-  variables: string[];
-  results: string[];
+/** What the editor knows of one model beyond its text: the report's results and declared names. */
+export interface EditorFacts {
+  results: ReadonlyMap<string, string>;
+  symbols: WorksheetSymbols | null;
 }
 
-export function declaredNames(source: string): DeclaredNames {
-  const params = new Set<string>();
-  const variables = new Set<string>();
-  const results = new Set<string>();
-  for (const raw of source.split('\n')) {
-    const line = raw.replace(/#.*$/, '');
-    let m = /^\s*param\s+([A-Za-z_]\w*)/.exec(line);
-    if (m) params.add(m[1]);
-    m = /^\s*(?:integral|let)\s+([A-Za-z_]\w*)\s*=/.exec(line);
-    if (m) results.add(m[1]);
-    m = /\bas\s+([A-Za-z_]\w*)\s*$/.exec(line);
-    if (m) results.add(m[1]);
-    for (const d of line.matchAll(/\bd\(([^)]*)\)/g)) {
-      for (const v of d[1].split(',')) if (/^\s*[A-Za-z_]\w*\s*$/.test(v)) variables.add(v.trim());
-    }
-  }
-  return { params: [...params], variables: [...variables], results: [...results] };
-}
-
-/** One-line results by name, kept per model by the editor component, for hovers. */
-export const resultHovers = new Map<string, Map<string, string>>();
+/** Facts per model URI, set by the editor component from the latest report. */
+export const editorFacts = new Map<string, EditorFacts>();
 
 let registered = false;
 
@@ -75,14 +37,17 @@ export function registerSheetwiseLanguage(monaco: Monaco): void {
       { open: '(', close: ')' },
       { open: '"', close: '"' },
     ],
+    // Monaco's word boundaries (double-click, completion range), not a reading of the language.
     wordPattern: /[A-Za-z_]\w*|\d+(\.\d+)?/,
   });
+  // Monarch tokenizes by regular expressions by design: this is the only place a pattern
+  // touches worksheet source, and only to colour it. The word lists are the language's own.
   monaco.languages.setMonarchTokensProvider(LANGUAGE_ID, {
     defaultToken: '',
-    keywords: [...KEYWORDS],
-    domains: [...DOMAIN_WORDS],
-    functions: FUNCTIONS,
-    constants: CONSTANTS,
+    keywords: [...STATEMENT_KEYWORDS, ...CLAUSE_WORDS],
+    domains: [...DOMAINS],
+    functions: [...FUNCTION_NAMES],
+    constants: [...CONSTANT_NAMES],
     tokenizer: {
       root: [
         [/#.*$/, 'comment'],
@@ -181,6 +146,17 @@ export function registerSheetwiseLanguage(monaco: Monaco): void {
     },
   });
 
+  const kinds = monaco.languages.CompletionItemKind;
+  const KIND: Record<CompletionKind, MonacoNs.languages.CompletionItemKind> = {
+    keyword: kinds.Keyword,
+    clause: kinds.Keyword,
+    domain: kinds.EnumMember,
+    function: kinds.Function,
+    constant: kinds.Constant,
+    result: kinds.Variable,
+    parameter: kinds.Constant,
+    variable: kinds.Field,
+  };
   monaco.languages.registerCompletionItemProvider(LANGUAGE_ID, {
     provideCompletionItems(model, position) {
       const word = model.getWordUntilPosition(position);
@@ -190,28 +166,16 @@ export function registerSheetwiseLanguage(monaco: Monaco): void {
         startColumn: word.startColumn,
         endColumn: word.endColumn,
       };
-      const kinds = monaco.languages.CompletionItemKind;
-      const names = declaredNames(model.getValue());
       const before = model.getLineContent(position.lineNumber).slice(0, word.startColumn - 1);
-      const atStart = /^\s*$/.test(before);
-      const suggestions: MonacoNs.languages.CompletionItem[] = [];
-      const seen = new Set<string>();
-      const add = (label: string, kind: MonacoNs.languages.CompletionItemKind, detail: string, sort: string) => {
-        if (seen.has(label)) return;
-        seen.add(label);
-        suggestions.push({ label, kind, detail, insertText: label, range, sortText: `${sort}${label}` });
-      };
-      if (/:\s*$/.test(before) && /^\s*param\b/.test(before)) {
-        for (const d of DOMAIN_WORDS) add(d, kinds.EnumMember, 'domain', '0');
-        return { suggestions };
-      }
-      for (const k of KEYWORDS) {
-        if (atStart || !KEYWORD_HELP[k]) add(k, kinds.Keyword, KEYWORD_HELP[k] ?? 'keyword', atStart ? '0' : '3');
-      }
-      for (const r of names.results) add(r, kinds.Variable, 'result', '1');
-      for (const p of names.params) add(p, kinds.Constant, 'parameter', '1');
-      for (const v of names.variables) add(v, kinds.Field, 'integration variable', '2');
-      for (const f of FUNCTIONS) add(f, kinds.Function, 'function', '4');
+      const symbols = editorFacts.get(model.uri.toString())?.symbols ?? null;
+      const suggestions = completionEntries(completionContext(before), symbols).map((e) => ({
+        label: e.label,
+        kind: KIND[e.kind],
+        detail: e.detail,
+        insertText: e.label,
+        range,
+        sortText: e.sort,
+      }));
       return { suggestions };
     },
   });
@@ -220,11 +184,12 @@ export function registerSheetwiseLanguage(monaco: Monaco): void {
     provideHover(model, position) {
       const word = model.getWordAtPosition(position);
       if (!word) return null;
-      const text = resultHovers.get(model.uri.toString())?.get(word.word);
+      const facts = editorFacts.get(model.uri.toString());
+      const text = hoverMarkdown(word.word, facts?.results ?? new Map(), facts?.symbols ?? null);
       if (!text) return null;
       return {
         range: new monaco.Range(position.lineNumber, word.startColumn, position.lineNumber, word.endColumn),
-        contents: [{ value: `**${word.word}** = \`${text.replace(/`/g, "'")}\`` }],
+        contents: [{ value: text }],
       };
     },
   });

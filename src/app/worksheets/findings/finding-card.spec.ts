@@ -2,6 +2,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import type { StatementReport } from '@shared/evaluation';
 import { FIXTURE_REPORT } from '../testing/report-fixture';
 import { review, statementReview } from '../../reviews/testing';
+import { renderStep } from '@shared/record/render';
 import { FindingCard } from './finding-card';
 import { badgesOf, convergenceBadge, numericBadge } from './finding-view';
 
@@ -39,7 +40,8 @@ describe('FindingCard', () => {
   it('says when the principal root is flipped, and why', async () => {
     const { el } = await render(z3);
     expect(badge(el, 'branch')!.textContent).toContain('Principal root flipped');
-    expect(el.querySelector('[data-testid="branch-reason"]')!.textContent).toContain('more than pi');
+    const branchStep = z3.steps.find((s) => s.kind === 'branch')!;
+    expect(el.querySelector('[data-testid="branch-reason"]')!.textContent!.trim()).toContain(renderStep(branchStep).text);
   });
 
   it('shows the numeric check and, until reviews arrive, an unreviewed badge', async () => {
@@ -83,10 +85,14 @@ describe('FindingCard', () => {
     const details = el.querySelector('details')!;
     expect(details.open).toBe(true);
     const steps = el.querySelectorAll('[data-testid="finding-step"]');
-    expect(steps.length).toBe(5);
+    expect(steps.length).toBe(z3.steps.length);
     expect(el.querySelector('ol')).not.toBeNull();
-    expect(steps[1].textContent).toContain('Re A is positive definite');
-    expect((steps[1].querySelector('[data-latex]') as HTMLElement).dataset['latex']).toBe('\\operatorname{Re} A > 0');
+    // Every sentence and formula comes from the one renderer of steps.
+    z3.steps.forEach((step, i) => {
+      const { text, latex } = renderStep(step);
+      expect(steps[i].querySelector('.sentence')!.textContent).toBe(text);
+      expect((steps[i].querySelector('[data-latex]') as HTMLElement | null)?.dataset['latex'] ?? '').toBe(latex);
+    });
   });
 
   it('shows an error in plain words with its line and column', async () => {
@@ -119,8 +125,13 @@ describe('badge wording', () => {
   it('a missing numeric check says not run', () => {
     expect(numericBadge(cont)!.label).toBe('Numeric check not run');
   });
-  it('a failed statement with a check disagrees', () => {
-    expect(numericBadge({ ...z3, status: 'failed' })!.label).toBe('Numeric check disagrees');
+  it('reads the typed agreement, never words in the step text', () => {
+    const disagreeing = z3.steps.map((s) => (s.kind === 'numeric-agreement' ? { ...s, agrees: false } : s));
+    expect(numericBadge({ ...z3, steps: disagreeing })!.label).toBe('Numeric check disagrees');
+    expect(numericBadge({ ...z3, steps: [...z3.steps, { kind: 'note', text: 'The numbers disagree here.' }] })!.label).toBe('Numeric check agrees');
+    const verify = { ...cont, kind: 'verify' as const, steps: [] };
+    expect(numericBadge({ ...verify, agrees: false, status: 'failed' as const })!.label).toBe('Numeric check disagrees');
+    expect(numericBadge({ ...verify, agrees: true })!.label).toBe('Numeric check agrees');
   });
   it('divergent and oscillatory verdicts have their own icon and word', () => {
     expect(convergenceBadge({ ...z3, convergence: 'divergent', proof: 'proved' })).toMatchObject({ icon: 'cancel', label: 'Diverges · proved' });

@@ -2,7 +2,8 @@ import { ChangeDetectionStrategy, Component, computed, input, output } from '@an
 import type { StatementReviewDto } from '@shared/collaboration';
 import type { StatementReport } from '@shared/evaluation';
 import { reviewStatusView } from '../../reviews/review-status';
-import { badgesOf, kindWord, statusView, type BadgeView } from './finding-view';
+import { renderStep } from '@shared/record/render';
+import { badgesOf, branchReason, kindWord, statusView, type BadgeView } from './finding-view';
 import { MathDirective } from './math';
 
 /** One badge: an icon and a word, never colour alone. */
@@ -61,7 +62,13 @@ export class FindingCard {
   protected readonly kind = computed(() => kindWord(this.statement().kind));
   protected readonly badges = computed(() => badgesOf(this.statement()));
   protected readonly status = computed(() => statusView(this.statement()));
-  protected readonly steps = computed(() => this.statement().steps.filter((s) => s.kind !== 'result' || s.latex));
+  /** The steps as the one renderer words them (never the step data read here). */
+  protected readonly steps = computed(() =>
+    this.statement()
+      .steps.map((s) => ({ kind: s.kind, ...renderStep(s) }))
+      .filter((s) => s.kind !== 'result' || s.latex),
+  );
+  protected readonly branchReason = computed(() => branchReason(this.statement()));
   protected readonly headline = computed(() => {
     const st = this.statement();
     return st.name ? `${this.kind()} ${st.name}` : this.kind();
@@ -70,6 +77,16 @@ export class FindingCard {
   protected readonly reviewView = computed(() => reviewStatusView(this.review()));
   protected readonly noteText = computed(() => {
     const st = this.statement();
-    return st.kind === 'note' || st.kind === 'param' ? (st.steps[0]?.text ?? st.result?.text ?? '') : '';
+    if (st.kind !== 'note' && st.kind !== 'param') return '';
+    return st.steps[0] ? renderStep(st.steps[0]).text : (st.result?.text ?? '');
   });
+}
+
+/** Scroll a list of cards (not the page) so the card of a line is in view. */
+export function scrollCardIntoView(list: HTMLElement | undefined, line: number): void {
+  const el = list?.querySelector<HTMLElement>(`[data-testid="finding-card"][data-line="${line}"]`);
+  if (!list || !el) return;
+  const top = el.offsetTop - list.offsetTop;
+  if (top < list.scrollTop) list.scrollTop = top;
+  else if (top + el.offsetHeight > list.scrollTop + list.clientHeight) list.scrollTop = top + el.offsetHeight - list.clientHeight;
 }

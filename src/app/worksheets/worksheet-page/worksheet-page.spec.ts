@@ -2,13 +2,16 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { Component, input, output } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { provideRouter } from '@angular/router';
-import { of } from 'rxjs';
+import { Subject, of } from 'rxjs';
 import type { GroupRole, WorksheetDto } from '@shared/api';
 import { CodeEditor, type EditorProblem } from '../editor/code-editor';
 import { ConflictDiff } from '../editor/conflict-diff';
-import { EvaluationApi } from '../evaluation-api';
+import { EvaluationApi, type EvaluationEvent, type StoredReport } from '../evaluation-api';
 import { FIXTURE_REPORT } from '../testing/report-fixture';
+import { ConflictDialog } from './conflict-dialog';
+import { DraftStore } from './draft-store';
 import { WorksheetPage } from './worksheet-page';
 
 /** Stands in for Monaco (the real editor is tested end to end in the browser). */
@@ -21,6 +24,7 @@ class EditorDouble {
   readonly readOnly = input(false);
   readonly problems = input<EditorProblem[]>([]);
   readonly hovers = input<Map<string, string>>(new Map());
+  readonly symbols = input<unknown>(null);
   readonly valueChange = output<string>();
   readonly cursorLine = output<number>();
   readonly save = output<void>();
@@ -55,21 +59,30 @@ const sheet = (over: Partial<WorksheetDto> = {}): WorksheetDto => ({
 describe('WorksheetPage', () => {
   let http: HttpTestingController;
   const evaluated: string[] = [];
+  let recomputed: number;
+  /** What GET /report answers, and the stream POST /report gives. */
+  let stored: StoredReport;
+  let recompute$: Subject<EvaluationEvent>;
 
   beforeEach(() => {
     localStorage.clear();
     evaluated.length = 0;
+    recomputed = 0;
+    stored = { version: 3, engine: 'test-engine', current: true, report: FIXTURE_REPORT };
+    recompute$ = new Subject();
+    document.querySelector('.cdk-overlay-container')?.replaceChildren();
     TestBed.configureTestingModule({
       imports: [WorksheetPage],
       providers: [
         provideRouter([]),
         provideHttpClient(),
         provideHttpClientTesting(),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
         {
           provide: EvaluationApi,
           useValue: {
-            stored: () => of({ version: 3, report: FIXTURE_REPORT }),
-            evaluateSaved: () => of({ version: 3, report: FIXTURE_REPORT }),
+            stored: () => of(stored),
+            recompute: () => (recomputed++, recompute$),
             evaluateStream: (source: string) => {
               evaluated.push(source);
               return of({ type: 'report', report: FIXTURE_REPORT });
@@ -78,10 +91,8 @@ describe('WorksheetPage', () => {
         },
       ],
     });
-    TestBed.overrideComponent(WorksheetPage, {
-      remove: { imports: [CodeEditor, ConflictDiff] },
-      add: { imports: [EditorDouble, DiffDouble] },
-    });
+    TestBed.overrideComponent(WorksheetPage, { remove: { imports: [CodeEditor] }, add: { imports: [EditorDouble] } });
+    TestBed.overrideComponent(ConflictDialog, { remove: { imports: [ConflictDiff] }, add: { imports: [DiffDouble] } });
     http = TestBed.inject(HttpTestingController);
   });
 
@@ -104,6 +115,13 @@ describe('WorksheetPage', () => {
     return { fixture, el: fixture.nativeElement as HTMLElement };
   }
 
+  const overlay = (selector: string) => document.querySelector<HTMLElement>(`.cdk-overlay-container ${selector}`);
+  const store = (fixture: ComponentFixture<WorksheetPage>) => fixture.debugElement.injector.get(DraftStore);
+  /** A dialog reports its choice after it has closed. */
+  async function settle(fixture: ComponentFixture<WorksheetPage>) {
+    await new Promise((r) => setTimeout(r, 50));
+    await fixture.whenStable();
+  }
   const status = (el: HTMLElement) => el.querySelector('[data-testid="save-status"]')!.textContent!.trim();
   const editor = (el: HTMLElement) => el.querySelector<HTMLTextAreaElement>('[data-testid="editor"]')!;
   async function type(fixture: ComponentFixture<WorksheetPage>, text: string) {
@@ -134,6 +152,49 @@ describe('WorksheetPage', () => {
     expect(EditorDouble.last!.hovers().get('Z3')).toContain('sqrt');
     expect(el.querySelector('[data-testid="evaluation-status"]')!.textContent).toContain('1 problem');
     expect(evaluated).toEqual([]);
+    expect(recomputed).toBe(0);
+    expect(el.querySelector('[data-testid="recomputing"]')).toBeNull();
+    // Completion reads the names the parser declared, from the report.
+    expect(EditorDouble.last!.symbols()).toEqual(FIXTURE_REPORT.symbols);
+  });
+
+  it('shows a stale stored report at once with a Recomputing mark, then the fresh one', async () => {
+    const older = { ...FIXTURE_REPORT, statements: FIXTURE_REPORT.statements.slice(0, 2) };
+    stored = { version: 3, engine: 'older-engine', current: false, report: older };
+    const { fixture, el } = await open('author');
+    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(2);
+    expect(el.querySelector('[data-testid="recomputing"]')!.textContent).toContain('Recomputing');
+    expect(el.querySelector('[data-testid="evaluation-status"]')!.textContent).not.toContain('Evaluating');
+    expect(recomputed).toBe(1);
+    recompute$.next({ type: 'progress', index: 1, line: 2, total: 4 });
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="recomputing"]')!.textContent).toContain('statement 2 of 4');
+    recompute$.next({ type: 'report', report: FIXTURE_REPORT });
+    recompute$.complete();
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="recomputing"]')).toBeNull();
+    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(4);
+    expect(evaluated).toEqual([]);
+  });
+
+  it('recomputes in the background when no report is stored yet', async () => {
+    stored = { version: 3, engine: '', current: false, report: null };
+    const { fixture, el } = await open('author');
+    expect(el.querySelector('[data-testid="recomputing"]')).not.toBeNull();
+    recompute$.next({ type: 'report', report: FIXTURE_REPORT });
+    recompute$.complete();
+    await fixture.whenStable();
+    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(4);
+  });
+
+  it('asks in a dialog before deleting the worksheet', async () => {
+    const { fixture, el } = await open('owner');
+    el.querySelector<HTMLButtonElement>('[data-testid="delete-worksheet"]')!.click();
+    await fixture.whenStable();
+    expect(overlay('[data-testid="confirm-message"]')!.textContent).toContain('Two coupled modes');
+    overlay('[data-testid="confirm-cancel"]')!.click();
+    await settle(fixture);
+    http.expectNone('/api/worksheets/7');
   });
 
   it('links cards and lines: clicking a card selects it; moving the cursor highlights its card', async () => {
@@ -171,7 +232,7 @@ describe('WorksheetPage', () => {
     const { fixture, el } = await open('author');
     expect(editor(el).value).toBe('typed before reload');
     expect(el.querySelector('[data-testid="restored-draft"]')).not.toBeNull();
-    fixture.componentInstance.save();
+    store(fixture).save();
     await fixture.whenStable();
     http.expectOne('/api/worksheets/7').flush({ worksheet: sheet({ version: 4, source: 'typed before reload' }) });
     await fixture.whenStable();
@@ -180,41 +241,45 @@ describe('WorksheetPage', () => {
   it('on 409 shows both versions; keep mine saves on top of theirs', async () => {
     const { fixture, el } = await open('owner');
     await type(fixture, 'my text');
-    fixture.componentInstance.save();
+    store(fixture).save();
     await fixture.whenStable();
     http.expectOne('/api/worksheets/7').flush(
       { error: { code: 'version_conflict', message: 'm' }, current: sheet({ version: 5, updatedBy: 'Ilse Varga', source: 'their text' }) },
       { status: 409, statusText: 'Conflict' },
     );
     await fixture.whenStable();
-    const panel = el.querySelector('[data-testid="save-conflict"]')!;
+    const panel = overlay('[data-testid="save-conflict"]')!;
     expect(panel.textContent).toContain('Ilse Varga');
-    expect(el.querySelector('[data-testid="conflict-diff"]')!.textContent).toContain('their text | my text');
+    expect(overlay('[data-testid="conflict-diff"]')!.textContent).toContain('their text | my text');
+    // The safe choice is the primary (filled) button; overwriting theirs is not.
+    expect(overlay('[data-testid="take-theirs"]')!.getAttribute('mat-flat-button')).not.toBeNull();
+    expect(overlay('[data-testid="keep-mine"]')!.getAttribute('mat-flat-button')).toBeNull();
     expect(status(el)).toContain('Not saved: Ilse Varga saved version 5 meanwhile');
     expect(fixture.componentInstance.hasUnsavedChanges()).toBe(true);
 
-    el.querySelector<HTMLButtonElement>('[data-testid="keep-mine"]')!.click();
-    await fixture.whenStable();
+    overlay('[data-testid="keep-mine"]')!.click();
+    await settle(fixture);
     const req = http.expectOne('/api/worksheets/7');
     expect(req.request.body).toEqual({ source: 'my text', baseVersion: 5 });
     req.flush({ worksheet: sheet({ version: 6, source: 'my text' }) });
     await fixture.whenStable();
-    expect(el.querySelector('[data-testid="save-conflict"]')).toBeNull();
+    await fixture.whenStable();
+    expect(overlay('[data-testid="save-conflict"]')).toBeNull();
     expect(status(el)).toContain('Saved · version 6');
   });
 
   it('on 409 take theirs loads their text and keeps mine to bring back', async () => {
     const { fixture, el } = await open('author');
     await type(fixture, 'my text');
-    fixture.componentInstance.save();
+    store(fixture).save();
     await fixture.whenStable();
     http.expectOne('/api/worksheets/7').flush(
       { error: { code: 'version_conflict', message: 'm' }, current: sheet({ version: 5, source: 'their text' }) },
       { status: 409, statusText: 'Conflict' },
     );
     await fixture.whenStable();
-    el.querySelector<HTMLButtonElement>('[data-testid="take-theirs"]')!.click();
-    await fixture.whenStable();
+    overlay('[data-testid="take-theirs"]')!.click();
+    await settle(fixture);
     expect(editor(el).value).toBe('their text');
     expect(status(el)).toContain('Version 5');
     el.querySelector<HTMLButtonElement>('[data-testid="bring-back-mine"]')!.click();
@@ -226,7 +291,7 @@ describe('WorksheetPage', () => {
   it('shows another save failure in plain words and keeps the text', async () => {
     const { fixture, el } = await open('author');
     await type(fixture, 'kept');
-    fixture.componentInstance.save();
+    store(fixture).save();
     await fixture.whenStable();
     http.expectOne('/api/worksheets/7').flush(
       { error: { code: 'too_large', message: 'The worksheet is too large to save.' } },
