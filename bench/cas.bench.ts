@@ -56,6 +56,14 @@ for (let n = 1; n <= 3; n++) rows.push([`integral, symbolic, n = ${n}`, timeStat
 rows.push(['expect, symbolic n = 2', timeStatement(`${PARAMS}\n${SYMBOLIC[2]}\nexpect S2 = 2*pi/sqrt(k^2 + lam^2)`, paramCount + 1, 15)]);
 rows.push(['param', timeStatement(PARAMS, 0, 40)]);
 
+// Exact decisions on the whole domain (issue: verdicts over the declared domain): a 3-variable,
+// one-parameter symbolic integral with its convergence, cut crossings and printed form decided
+// exactly, and the exact expect of its stated form. Aim: under 300 ms in process.
+const EXACT_3 = 'param t : positive\nintegral T = exp(-(30 + i*t)*(x^2 + y^2 + z^2)/2 + t*x*y/5) d(x, y, z)';
+rows.push(['integral, exact 3 variables, 1 parameter', timeStatement(EXACT_3, 1, 15)]);
+rows.push(['expect, exact on the whole domain', timeStatement('param t : positive\nintegral T = exp(-(30 + i*t)*(x^2 + y^2 + z^2)/2) d(x, y, z)\nexpect T = (2*pi)^(3/2)/sqrt((30 + i*t)^3)', 2, 15)]);
+const exactAim = 300;
+
 // continue: the statement on the two-mode example (n = 2), and the continuation core for n = 20
 // numeric variables, 1,000 steps (integrals over more than four variables take numbers for their
 // parameters, so n = 20 is timed below the statement, with the statement's own options but the step count)
@@ -105,6 +113,9 @@ console.log(`${'statement'.padEnd(width)}  median ms   p95 ms   runs`);
 for (const [kind, xs] of rows) {
   console.log(`${kind.padEnd(width)}  ${percentile(xs, 0.5).toFixed(2).padStart(9)}  ${percentile(xs, 0.95).toFixed(2).padStart(7)}  ${String(xs.length).padStart(5)}`);
 }
+const exactRow = rows.find(([k]) => k.startsWith('integral, exact 3'))!;
+const exactMedian = percentile(exactRow[1], 0.5);
+console.log(`exact 3-variable, 1-parameter integral: median ${exactMedian.toFixed(1)} ms, aim < ${exactAim} ms: ${exactMedian < exactAim ? 'reached' : 'NOT reached'}`);
 console.log(`continuation n = 20: ${Math.min(...stepsSeen)}-${Math.max(...stepsSeen)} steps per run`);
 for (const e of evaluations) console.log(`verify n = ${e.n}: ${e.evaluations} integrand evaluations, ${e.agrees ? 'agrees' : 'DOES NOT AGREE'} with the closed form`);
 const figures = Object.fromEntries(rows.map(([kind, xs]) => [kind, { medianMs: Number(percentile(xs, 0.5).toFixed(3)), p95Ms: Number(percentile(xs, 0.95).toFixed(3)), runs: xs.length }]));

@@ -99,7 +99,10 @@ export function evaluateWorksheet(source: string, options: EvaluateOptions = {})
     options.onStatementStart?.(index, line);
     startDeadline(limit);
     try {
-      statements.push(dispatch(s, ctx));
+      const r = dispatch(s, ctx);
+      // a NaN or an infinity anywhere in a statement's record is an error, never status ok
+      if (hasNonFinite(r)) throw new StatementFailure('The computation produced a number outside double range or undefined (NaN) for this statement; its result is withheld. Check the parameter values, or write a large factor separately with let.', line, s.span.start.column);
+      statements.push(r);
     } catch (e) {
       const r = blankReport(line, s.kind, nameOf(s));
       r.status = 'error';
@@ -142,4 +145,12 @@ function symbolsOf(parsed: ParsedWorksheet): WorksheetSymbols {
   }
   out.variables = [...vars];
   return out;
+}
+
+/** Any number in the report that is NaN or infinite (JSON would turn it into null). */
+function hasNonFinite(x: unknown): boolean {
+  if (typeof x === 'number') return !Number.isFinite(x);
+  if (Array.isArray(x)) return x.some(hasNonFinite);
+  if (x && typeof x === 'object') return Object.values(x).some(hasNonFinite);
+  return false;
 }

@@ -67,6 +67,8 @@ export const diagramData = z.object({
   tracks: z.array(diagramTrack).default([]),
   /** Eigenvalues of A at the statement's point, drawn as marks. */
   eigenvalues: z.array(complexValue.extend({ arg: z.number() })).default([]),
+  /** The parameter point the eigenvalues belong to, in words ("k = 1"), when there are parameters. */
+  eigenvaluesAt: z.string().optional(),
 });
 export type DiagramData = z.infer<typeof diagramData>;
 

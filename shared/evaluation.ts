@@ -169,6 +169,8 @@ export const step = z.discriminatedUnion('kind', [
     relativeDifference: z.number().nullable(),
     tolerance: z.number(),
     agrees: z.boolean(),
+    /** The printed closed form evaluated as written (principal roots as printed) against the quadrature. */
+    printed: z.object({ value: complexValue, relativeDifference: z.number(), agrees: z.boolean() }).optional(),
   }),
   z.object({
     kind: z.literal('rotation'),

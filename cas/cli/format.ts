@@ -6,10 +6,16 @@ import { complexApprox } from '../../shared/record/numbers.js';
 const quarterPhase = (m: number) => (m === 1 ? 'exp(i*pi/4)' : m === -1 ? 'exp(-i*pi/4)' : `exp(${m}*i*pi/4)`);
 
 function statementLines(s: StatementReport): string[] {
-  const head = `line ${s.line}  ${s.kind}${s.name ? ` ${s.name}` : ''}: ${s.status}`;
+  // what the statement's verdicts rest on, at the top: proved on the whole domain, piecewise, or sampled
+  const piecewise = s.convergence === 'piecewise' || s.branch?.principal === 'piecewise' || s.steps.some((st) => (st.kind === 'expect' || st.kind === 'legality') && st.regions.length > 0);
+  const sampled = s.proof === 'sampled' || s.steps.some((st) => 'basis' in st && st.basis.kind === 'sampled');
+  const rests = sampled ? 'sampled, not proved' : s.proof === 'proved' ? (piecewise ? 'piecewise, proved' : 'proved on the whole domain') : '';
+  const head = `line ${s.line}  ${s.kind}${s.name ? ` ${s.name}` : ''}: ${s.status}${rests ? ` (${rests})` : ''}`;
   const out = [head];
   if (s.error) out.push(`  error (line ${s.error.line}, column ${s.error.column}): ${s.error.message}`);
-  if (s.convergence) out.push(`  convergence: ${s.convergence} (${s.proof === 'proved' ? 'proved' : 'sampled, not proved'})`);
+  const conv = s.steps.find((st) => st.kind === 'convergence');
+  const convBasis = conv && 'basis' in conv ? conv.basis.kind : s.proof === 'proved' ? 'proved' : 'sampled';
+  if (s.convergence) out.push(`  convergence: ${s.convergence} (${convBasis === 'sampled' ? 'sampled, not proved' : convBasis === 'numeric' ? 'decided in double precision' : 'proved'})`);
   if (s.result) {
     out.push(`  result: ${s.name ?? ''} ${s.result.text.startsWith('≈') ? '' : '= '}${s.result.text}`);
     if (s.result.value) out.push(`  value: ${complexApprox(s.result.value, 17)}`);
@@ -19,7 +25,7 @@ function statementLines(s: StatementReport): string[] {
   if (s.sheet) out.push(`  sheet: ${s.sheet}`);
   if (s.verdict) out.push(`  verdict: ${s.verdict}${s.phaseOverPiQuarter !== undefined && s.phaseOverPiQuarter !== null ? ` (phase ${quarterPhase(s.phaseOverPiQuarter)})` : ''}`);
   if (s.agrees !== undefined) out.push(`  agrees: ${s.agrees}`);
-  if (s.kind !== 'param' && s.kind !== 'note') s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${renderStep(st).text}`));
+  s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${renderStep(st).text}`));
   return out;
 }
 

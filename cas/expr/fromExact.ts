@@ -10,8 +10,8 @@
 import type { Expr } from '../lang/ast.js';
 import { add, call, div, I, mul, name as nameExpr, neg, num, pow, PI, sub } from './build.js';
 import type { GQ, Q } from '../exact/q.js';
-import { qIsZero, qsign, qabs, gIsOne, gneg } from '../exact/q.js';
-import { squareFree, isConstant, constantTerm, type Poly, type Term } from '../exact/poly.js';
+import { qIsZero, qsign, qabs, gIsOne, gneg, qToNumber } from '../exact/q.js';
+import { squareFree, isConstant, constantTerm, polyScale, type Poly, type Term } from '../exact/poly.js';
 import type { RatFunc } from '../exact/ratfunc.js';
 
 function qExpr(x: Q): Expr {
@@ -106,8 +106,26 @@ export function factoredPolyExpr(p: Poly): Expr {
   return mul(gqExpr(unit), e);
 }
 
+/** Multiply numerator and denominator by the unit (1, -1, i, -i) that makes the denominator's first term positive: 30 + i*t, not -30*i + t. */
+function unitNormal(r: RatFunc): RatFunc {
+  const first = [...r.den.terms.values()].sort((a, b) => termDegree(a) - termDegree(b) || keyOf(a).localeCompare(keyOf(b)))[0];
+  if (!first) return r;
+  const c = first.c;
+  const units: GQ[] = [
+    { re: { n: 1n, d: 1n }, im: { n: 0n, d: 1n } }, { re: { n: -1n, d: 1n }, im: { n: 0n, d: 1n } },
+    { re: { n: 0n, d: 1n }, im: { n: 1n, d: 1n } }, { re: { n: 0n, d: 1n }, im: { n: -1n, d: 1n } },
+  ];
+  // Re(u c) for each unit: c.re, -c.re, -c.im, c.im
+  const score = [qToNumber(c.re), -qToNumber(c.re), -qToNumber(c.im), qToNumber(c.im)];
+  const best = score.indexOf(Math.max(...score));
+  if (best === 0) return r;
+  const u = units[best]!;
+  return { num: polyScale(r.num, u), den: polyScale(r.den, u) };
+}
+
 /** A rational function as numerator / denominator, each as a sum. */
 export function ratExpr(r: RatFunc, factored = false): Expr {
+  r = unitNormal(r);
   const f = factored ? factoredPolyExpr : polyExpr;
   const top = f(r.num);
   if (isConstant(r.den) && r.den.terms.size <= 1) return top;

@@ -22,6 +22,8 @@ import { analyzeAt, numericForm, type PointAnalysis } from '../gaussian/numericM
 import { closedForm } from '../gaussian/closedForm.js';
 import { complexText, fmt, matrixLatex, matrixText, piMultiple, polar, quarterPhaseText, vectorLatex, vectorText } from '../gaussian/describe.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
+import { integralDiagram } from './shared.js';
+import { pointText } from '../../shared/record/numbers.js';
 
 type IntegralStatement = Extract<Statement, { kind: 'integral' }>;
 
@@ -251,6 +253,7 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
   const rule = !symbolic ? (byPivotsOnly ? 'pivots' : 'eigenvalues')
     : provedPrincipal && principal === 'right' ? (n === 1 ? 'one-variable' : 'two-variables') : 'sampled';
   report.branch = { principalSqrtDetCorrect: principal === 'right', principal };
+  report.diagram = integralDiagram(bd.eigenvalues, symbolic ? pointText(pointRecord(decisive.p)) : undefined);
   report.steps.push({
     kind: 'branch', principal, rule,
     basis: !symbolic ? { kind: 'numeric' } : rule === 'sampled' ? sampledBasis(domains, params, signs.length, plus) : { kind: 'proved' },

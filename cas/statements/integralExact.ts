@@ -25,6 +25,8 @@ import { rootNumber, type Cell } from '../verdicts/line.js';
 import { samplePoints, type Point } from '../domains/sample.js';
 import { Complex } from 'complex.js';
 import type { Context } from './context.js';
+import { integralDiagram } from './shared.js';
+import { pointText } from '../../shared/record/numbers.js';
 import type { Domain } from '../../shared/evaluation.js';
 
 export interface ExactInput {
@@ -141,7 +143,8 @@ export function evaluateIntegralExactly(input: ExactInput, ctx: Context, report:
     verdict: single ? CONV_OF[single] : 'piecewise',
     reason: single === 'absolute' ? 'sylvester' : single === 'oscillatory' ? 'i-epsilon' : single === 'source-grows' ? 'source-grows' : single === 'divergent' ? 'grows' : 'changes',
     basis: { kind: 'proved' },
-    minors: analysis.minorsRe.map((m) => formulaOf(ratExpr(m, true))),
+    // the minors of the declared form (the analysis may have scaled a parameter to 1)
+    minors: (analysis.scaledBy ? leadingMinorsRat(form.A.map((row) => row.map(rfRe))) : analysis.minorsRe).map((m) => formulaOf(ratExpr(m, true))),
     realEigenvalues: [],
     regions: single ? [] : convRegions.map((r) => ({ condition: cond(r.cells), holds: r.key === 'absolute' || r.key === 'oscillatory', verdict: CONV_OF[r.key] })),
     boundaries: single || !param ? [] : regionBoundaries(convRegions, param),
@@ -158,6 +161,7 @@ export function evaluateIntegralExactly(input: ExactInput, ctx: Context, report:
     }
   }
   report.steps.push(verdict);
+  report.diagram = integralDiagram([], undefined);
   const convergence: Convergence = single === 'source-grows' ? 'divergent' : single ? CONV_OF[single] : convergent.length ? 'piecewise' : 'divergent';
   report.convergence = convergence;
   report.proof = 'proved';
@@ -179,6 +183,8 @@ export function evaluateIntegralExactly(input: ExactInput, ctx: Context, report:
   const at = analyzeAt(numericForm(structural, prefactor, pointOfCell(sample.cell)));
   const crossings: ExactNumber[] = principal === 'piecewise' && param ? regionBoundaries(branchRegions, param) : [];
   report.branch = { principalSqrtDetCorrect: principal === 'right', principal };
+  const samplePoint = pointOfCell(sample.cell);
+  report.diagram = integralDiagram(at.branch?.eigenvalues ?? [], params.length ? pointText(Object.fromEntries([...samplePoint].map(([k, v]) => [k, { re: v.re, im: v.im }]))) : undefined);
   report.steps.push({
     kind: 'branch', principal, rule: param ? 'crossings' : n === 1 ? 'one-variable' : 'eigenvalues',
     basis: { kind: 'proved' },

@@ -5,6 +5,7 @@ import { evaluate } from '../expr/evaluate.js';
 import { formulaOf } from '../expr/print.js';
 import { parseExpression } from '../lang/parse.js';
 import type { Formula } from '../../shared/evaluation.js';
+import type { DiagramData } from '../../shared/diagram.js';
 import { freeNames } from '../expr/names.js';
 import type { Point } from '../domains/sample.js';
 import { StatementFailure, type AvailableResult, type Context } from './context.js';
@@ -65,3 +66,13 @@ export const unitLine = (theta: number, r = 3) => [
 ];
 
 export const PRINCIPAL_CUT = { label: 'Principal cut of sqrt (negative real axis)', points: [{ re: 0, im: 0 }, { re: -1e6, im: 0 }] };
+
+/** The diagram of an integral: its real contour, the principal cut, and the eigenvalues of A at the point named. */
+export function integralDiagram(eigenvalues: readonly { re: number; im: number }[], at: string | undefined): DiagramData {
+  return {
+    contours: [{ label: 'Real contour', role: 'real', points: unitLine(0) }],
+    sectors: [], cuts: [PRINCIPAL_CUT], paths: [], tracks: [],
+    eigenvalues: eigenvalues.map((z) => ({ re: z.re, im: z.im, arg: Math.atan2(z.im, z.re) })),
+    ...(at ? { eigenvaluesAt: at } : {}),
+  };
+}

@@ -187,11 +187,28 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
     return report;
   }
   const verdict = closed ? agreesWithClosedForm(value, closed, tolerance) : { agrees: false, relativeDifference: NaN };
-  report.agrees = verdict.agrees;
-  report.status = verdict.agrees ? 'ok' : 'failed';
+  // the printed formula too, evaluated as a reader would (principal roots as printed)
+  let printed: { value: { re: number; im: number }; relativeDifference: number; agrees: boolean } | undefined;
+  if (result.expr) {
+    try {
+      const w = evaluate(result.expr, p);
+      if (Number.isFinite(w.re) && Number.isFinite(w.im)) {
+        const d = agreesWithClosedForm(value, w, tolerance);
+        printed = { value: { re: w.re, im: w.im }, relativeDifference: d.relativeDifference, agrees: d.agrees };
+      }
+    } catch { /* a printed form that cannot be evaluated here is reported as not checked */ }
+  }
+  const agrees = verdict.agrees && (printed?.agrees ?? true);
+  report.agrees = agrees;
+  report.status = agrees ? 'ok' : 'failed';
   report.result = { text: complexApprox(value, 15), latex: complexApproxLatex(value, 15), value };
   report.steps.push(quadStep);
-  report.steps.push({ kind: 'numeric-agreement', name, closed: closed ? { re: closed.re, im: closed.im } : null, relativeDifference: closed ? verdict.relativeDifference : null, tolerance, agrees: verdict.agrees });
+  report.steps.push({
+    kind: 'numeric-agreement', name, closed: closed ? { re: closed.re, im: closed.im } : null,
+    relativeDifference: closed && Number.isFinite(verdict.relativeDifference) ? verdict.relativeDifference : null, tolerance, agrees,
+    ...(printed ? { printed } : {}),
+  });
   if (!verdict.agrees) report.error = { message: `The numeric check of ${name} disagrees with the closed form${where} (relative difference ${verdict.relativeDifference.toExponential(2)}).`, line, column: s.span.start.column };
+  else if (printed && !printed.agrees) report.error = { message: `The printed formula of ${name}, evaluated with principal roots as printed, disagrees with the quadrature${where} (relative difference ${printed.relativeDifference.toExponential(2)}).`, line, column: s.span.start.column };
   return report;
 }

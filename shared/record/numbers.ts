@@ -45,8 +45,9 @@ export function pointText(p: PointValues | undefined): string {
 
 /** An angle in radians as a multiple of pi, marked as floating point unless it is 0. */
 export function piMultipleText(a: number): string {
-  const m = digits(a / Math.PI, 4);
-  if (m === '0') return '0';
+  // four decimals in units of pi: rounding noise of a zero sum shows as ≈ 0, never as -7.1e-17*pi
+  const m = Number((a / Math.PI).toFixed(4)).toString().replace(/^-0$/, '0');
+  if (m === '0') return a === 0 ? '0' : '≈ 0';
   if (m === '1') return '≈ pi';
   if (m === '-1') return '≈ -pi';
   return `≈ ${m}*pi`;
@@ -56,4 +57,10 @@ export function piMultipleText(a: number): string {
 export function scaledText(v: { mantissa: ComplexValue; exponent10: number }, n = 6): string {
   const m = complexParts(v.mantissa, (x) => digits(x, n));
   return `≈ ${v.mantissa.re !== 0 && v.mantissa.im !== 0 ? `(${m})` : m} × 10^${v.exponent10}`;
+}
+
+/** The same multiple of pi for LaTeX: four decimals, marked approximate. */
+export function piMultipleLatex(a: number): string {
+  const m = Number((a / Math.PI).toFixed(4)).toString().replace(/^-0$/, '0');
+  return a === 0 ? '0' : `\\approx ${m}\\,\\pi`;
 }

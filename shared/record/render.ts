@@ -8,7 +8,7 @@
  */
 import type { Basis, Formula, SampleBox, Step, StepOf } from '../evaluation.js';
 import { DOMAIN_HELP } from '../language.js';
-import { approx, complexApprox, complexApproxLatex, digits, piMultipleText, pointText, scaledText } from './numbers.js';
+import { approx, complexApprox, complexApproxLatex, digits, piMultipleLatex, piMultipleText, pointText, scaledText } from './numbers.js';
 
 export interface RenderedStep {
   /** The sentence in plain words, formulas in infix text. */
@@ -17,6 +17,8 @@ export interface RenderedStep {
   latex: string;
 }
 
+/** An exact number with its decimal where the text is not already one: 30*sqrt(3) (≈ 51.9615), 10. */
+const exactNumberText = (b: { text: string; approx: number }) => (String(b.approx) === b.text ? b.text : `${b.text} (${approx(b.approx)})`);
 const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
 const list = (xs: readonly string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -48,7 +50,7 @@ const CONVERGENCE_WORDS = {
 
 function convergence(s: StepOf<'convergence'>): RenderedStep {
   const head = `${cap(CONVERGENCE_WORDS[s.verdict])}, ${basisText(s.basis)}`;
-  const dir = s.direction ? `; the integrand grows along the real direction (${s.direction.map((x) => digits(x)).join(', ')})${s.at ? ` at ${pointText(s.at)}` : ''}` : '';
+  const dir = s.direction ? `; the integrand grows along the real direction ≈ (${s.direction.map((x) => digits(x)).join(', ')})${s.at ? ` at ${pointText(s.at)}` : ''}` : '';
   const why: Record<StepOf<'convergence'>['reason'], string> = {
     sylvester: `: Re A is positive definite, its leading principal minors ${s.minors.map((m) => m.text).join(', ')} being positive (Sylvester's criterion)`,
     diagonal: ': a diagonal entry of Re A is negative',
@@ -61,7 +63,7 @@ function convergence(s: StepOf<'convergence'>): RenderedStep {
     changes: `: ${s.regions.map((r) => `${r.verdict} for ${r.condition.text}`).join('; ')}`,
     sampled: Object.keys(s.counts).length ? `: ${Object.entries(s.counts).map(([k, n]) => `${k} at ${n}`).join(', ')}` : '',
   };
-  const bounds = s.boundaries.length ? `; boundary at ${s.boundaries.map((b) => `${b.text} (${approx(b.approx)})`).join(', ')}` : '';
+  const bounds = s.boundaries.length ? `; boundary at ${s.boundaries.map(exactNumberText).join(', ')}` : '';
   const latex = s.verdict === 'absolute'
     ? (s.minors.length ? `\\operatorname{Re} A \\succ 0:\\quad ${s.minors.map((m, k) => `\\Delta_{${k + 1}} = ${m.latex}`).join(',\\ ')}` : '\\operatorname{Re} A \\succ 0')
     : s.verdict === 'oscillatory' ? '\\operatorname{Re} A \\succeq 0,\\ \\det A \\neq 0'
@@ -99,7 +101,7 @@ function branch(s: StepOf<'branch'>): RenderedStep {
       break;
     case 'crossings':
       text = s.crossings.length
-        ? `det A crosses the negative real axis (the principal cut) at ${s.crossings.map((c) => `${c.text} (${approx(c.approx)})`).join(', ')}; the principal sqrt(det A) is ${s.regions.map((r) => `${r.holds ? 'right' : 'wrong'} for ${r.condition.text}`).join(' and ')}`
+        ? `det A crosses the negative real axis (the principal cut) at ${s.crossings.map(exactNumberText).join(', ')}; the principal sqrt(det A) is ${s.regions.map((r) => `${r.holds ? 'right' : 'wrong'} for ${r.condition.text}`).join(' and ')}`
         : `det A does not cross the negative real axis inside the domain, so the sign found at one point holds everywhere: ${eig ? `${s.at && Object.keys(s.at).length ? `at ${pointText(s.at)} ` : ''}the eigenvalues of A are ${eig}, their arguments summing to ${sum}, so ` : ''}the principal sqrt(det A) is ${s.principal === 'right' ? 'the continuous branch' : 'minus the continuous branch'} on the whole domain`;
       break;
     case 'sampled':
@@ -112,9 +114,9 @@ function branch(s: StepOf<'branch'>): RenderedStep {
   }
   const pivotWords = s.pivotsAgree === null ? '' : s.pivotsAgree ? ' The L D L^T pivots give the same root.' : ' The L D L^T pivots disagreed with the eigenvalues at some point, where the eigenvalues were used.';
   const latex = s.rule === 'pivots'
-    ? `\\det(A)^{1/2} = \\prod_k d_k^{1/2}${s.argumentSum === undefined ? '' : `,\\quad \\sum_k \\arg d_k \\approx ${digits(s.argumentSum / Math.PI, 4)}\\,\\pi`}`
+    ? `\\det(A)^{1/2} = \\prod_k d_k^{1/2}${s.argumentSum === undefined ? '' : `,\\quad \\sum_k \\arg d_k ${piMultipleLatex(s.argumentSum)}`}`
     : s.rule === 'crossings' ? (s.regions.map((r) => `${tex(r.holds ? 'principal right' : 'principal wrong')}\\ (${r.condition.latex})`).join(';\\ ') || '\\det(A)^{1/2}\\ \\text{principal}')
-    : `\\det(A)^{1/2} = \\prod_k \\lambda_k^{1/2}${s.argumentSum === undefined ? '' : `,\\quad \\sum_k \\arg \\lambda_k \\approx ${digits(s.argumentSum / Math.PI, 4)}\\,\\pi`}`;
+    : `\\det(A)^{1/2} = \\prod_k \\lambda_k^{1/2}${s.argumentSum === undefined ? '' : `,\\quad \\sum_k \\arg \\lambda_k ${piMultipleLatex(s.argumentSum)}`}`;
   return { text: `${text} (${basisText(s.basis)}).${pivotWords}`, latex };
 }
 
@@ -195,8 +197,13 @@ function numericCheck(s: StepOf<'numeric-check'>): RenderedStep {
 
 function numericAgreement(s: StepOf<'numeric-agreement'>): RenderedStep {
   if (!s.closed) return { text: `The closed form of ${s.name} has no value here (it diverges); nothing to agree with.`, latex: tex('disagrees') };
+  const p = s.printed;
+  const printed = p
+    ? ` The printed formula evaluated as written (principal roots as printed) gives ${complexApprox(p.value, 15)}: relative difference ${approx(p.relativeDifference, 3)}, ${p.agrees ? 'agrees' : 'DISAGREES'}.`
+    : '';
+  const closedAgrees = s.relativeDifference !== null && s.relativeDifference <= s.tolerance;
   return {
-    text: `Against the closed form (${complexApprox(s.closed, 15)}): relative difference ${approx(s.relativeDifference ?? NaN, 3)}, ${s.agrees ? 'within' : 'OUTSIDE'} the tolerance ${digits(s.tolerance)}: ${s.agrees ? 'agrees' : 'disagrees'}.`,
+    text: `Against the closed form on the continuous branch (${complexApprox(s.closed, 15)}): relative difference ${approx(s.relativeDifference ?? NaN, 3)}, ${closedAgrees ? 'within' : 'OUTSIDE'} the tolerance ${digits(s.tolerance)}.${printed} Verdict: ${s.agrees ? 'agrees' : 'disagrees'}.`,
     latex: tex(s.agrees ? 'agrees' : 'disagrees'),
   };
 }
@@ -236,7 +243,7 @@ function legality(s: StepOf<'legality'>): RenderedStep {
   const fb = s.firstBad;
   const first = fb?.angle ? fb.angle.text : fb?.t !== undefined ? `t ${approx(fb.t)} of the sweep (${Object.entries(fb.perVariable).map(([v, a]) => `${v} at ${a.text}`).join(', ')})` : 'an angle of the sweep';
   const at = s.at && Object.keys(s.at).length ? ` (at ${pointText(s.at)})` : '';
-  const dir = s.direction ? `, along the real direction (${s.direction.map((x) => digits(x)).join(', ')})` : '';
+  const dir = s.direction ? `, along the real direction ≈ (${s.direction.map((x) => digits(x)).join(', ')})` : '';
   return { text: `Not allowed: the integrand grows on the swept family, first at ${first}${at}${dir}; ${how}. No rotated result.`, latex: '\\operatorname{Re}\\left(D A D\\right) \\not\\succeq 0' };
 }
 

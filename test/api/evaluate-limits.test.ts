@@ -32,17 +32,7 @@ test('the slow statement errs, the others keep their results', async () => {
 });
 
 test('a client that goes away cancels its streamed evaluation; progress events come first', async () => {
-  const token = decodeURIComponent(client.cookies.get('XSRF-TOKEN')!);
-  const res = await fetch(`${server.url}/api/evaluate`, {
-    method: 'POST',
-    headers: {
-      'content-type': 'application/json',
-      accept: 'text/event-stream',
-      'x-xsrf-token': token,
-      cookie: [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; '),
-    },
-    body: JSON.stringify({ source: 'note "one"\nnote "two"' }),
-  });
+  const res = await client.stream('/api/evaluate', { source: 'note "one"\nnote "two"' });
   assert.match(res.headers.get('content-type') ?? '', /^text\/event-stream/);
   const text = await res.text();
   const events = [...text.matchAll(/^event: (\w+)$/gm)].map((m) => m[1]);

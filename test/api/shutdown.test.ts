@@ -32,17 +32,7 @@ test('SIGTERM finishes the evaluation in flight, then closes the database and ex
   assert.ok((await connectionsTo(db.name)) > 0, 'the running server holds connections');
 
   // The streamed variant says when the first statement has started: the request is in flight.
-  const token = decodeURIComponent(client.cookies.get('XSRF-TOKEN')!);
-  const response = await fetch(`${server.url}/api/evaluate`, {
-    method: 'POST',
-    headers: {
-      'content-type': 'application/json',
-      accept: 'text/event-stream',
-      'x-xsrf-token': token,
-      cookie: [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; '),
-    },
-    body: JSON.stringify({ source: slowWorksheet(30) }),
-  });
+  const response = await client.stream('/api/evaluate', { source: slowWorksheet(30) });
   const reader = response.body!.getReader();
   const decoder = new TextDecoder();
   let text = '';

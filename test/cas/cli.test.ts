@@ -49,3 +49,8 @@ test('usage errors and unreadable files: exit 2', () => {
   assert.equal(cli('eval', good, '--yaml').status, 2);
   assert.equal(cli('check', join(dir, 'nowhere')).status, 2);
 });
+
+test('the example outputs in README.md and docs/worksheet-language.md are real runs of the current core', () => {
+  const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/render-examples.ts', '--check'], { encoding: 'utf8' });
+  assert.equal(r.status, 0, r.stderr);
+});

@@ -1,6 +1,6 @@
 /**
  * rotate, continue, compare, verify, let, limit: checked against sources outside the project
- * (REFERENCES file; "from memory" where it says so) and against independent computations
+ * (docs/references.md; "from memory" where it says so) and against independent computations
  * (mathjs eigenvalues; the published formulas evaluated here with mathjs), never against cas/ itself.
  */
 import { test } from 'node:test';
@@ -20,7 +20,7 @@ const fresnel = (a: number): Cx => ({ re: Math.sqrt(Math.PI / Math.abs(a)) * Mat
 const times = (a: Cx, b: Cx): Cx => ({ re: a.re * b.re - a.im * b.im, im: a.re * b.im + a.im * b.re });
 const unit = (t: number): Cx => ({ re: Math.cos(t), im: Math.sin(t) });
 
-test('Fresnel on the line reached by rotating the convergent Gaussian exp(-x^2) by pi/4 — NIST DLMF 7.2 (from memory), Fresnel on the line (REFERENCES)', () => {
+test('Fresnel on the line reached by rotating the convergent Gaussian exp(-x^2) by pi/4 — NIST DLMF 7.2 (from memory), Fresnel on the line (docs/references.md)', () => {
   const r = run('integral G = exp(-x^2) d(x)\nrotate G : x -> exp(i*pi/4)*x as GF');
   const s = r.statements[1]!;
   assert.equal(s.legal, true);
@@ -30,7 +30,7 @@ test('Fresnel on the line reached by rotating the convergent Gaussian exp(-x^2) 
   assert.ok(relErr(s.result!.value!, expected) < 1e-12, JSON.stringify(s.result));
 });
 
-test('Fresnel on the line reached by rotating the oscillatory exp(i a x^2) onto a convergent Gaussian — Fresnel on the line (REFERENCES); 1-D Gaussian G&R 3.323.2 (from memory)', () => {
+test('Fresnel on the line reached by rotating the oscillatory exp(i a x^2) onto a convergent Gaussian — Fresnel on the line (docs/references.md); 1-D Gaussian G&R 3.323.2 (from memory)', () => {
   for (const a of [1.5, -0.8]) {
     const theta = a > 0 ? 'pi/4' : '-pi/4';
     const r = run(`integral W = exp(i*${a < 0 ? `(${a})` : a}*x^2) d(x)\nrotate W : x -> exp(i*${theta})*x as WG`);
@@ -113,7 +113,7 @@ function mathjsContinuation(k: number, path: Cx[]): Cx {
 
 const MODES = 'param k : positive\nparam lam : real\nintegral Z = exp(-(k*a^2 + 2*i*lam*a*b + k*b^2)/2) d(a, b)';
 
-test('continuation of [[k, i lam], [i lam, k]] from 0 to 2ik, right and left of the branch point ik — facts of the trade (REFERENCES); end values against a mathjs-eigenvalue continuation', () => {
+test('continuation of [[k, i lam], [i lam, k]] from 0 to 2ik, right and left of the branch point ik — facts of the trade (docs/references.md); end values against a mathjs-eigenvalue continuation', () => {
   for (const [side, mid, sheet] of [['right', { re: 0.6, im: 1 }, 'principal'], ['left', { re: -0.6, im: 1 }, 'minus-principal']] as const) {
     const path = `0 -> ${mid.re < 0 ? `(${mid.re})` : mid.re} + i -> 2*i`;
     const s = run(`${MODES}\ncontinue Z : lam along ${path} at k = 1`).statements[3]!;
@@ -136,7 +136,7 @@ test('a path straight through the branch point lam = ik is refused with the plac
   assert.equal(s.error!.line, 4);
 });
 
-test('once around the simple zero ik flips the sign, twice does not — facts of the trade (REFERENCES); mathjs-eigenvalue continuation', () => {
+test('once around the simple zero ik flips the sign, twice does not — facts of the trade (docs/references.md); mathjs-eigenvalue continuation', () => {
   const loop = [{ re: 0, im: 0 }, { re: 1, im: 1 }, { re: 0, im: 2 }, { re: -1, im: 1 }, { re: 0, im: 0 }];
   const once = run(`${MODES}\ncontinue Z : lam along 0 -> 1 + i -> 2*i -> -1 + i -> 0 at k = 1`).statements[3]!;
   const twice = run(`${MODES}\ncontinue Z : lam along 0 -> 1 + i -> 2*i -> -1 + i -> 0 -> 1 + i -> 2*i -> -1 + i -> 0 at k = 1`).statements[3]!;
@@ -185,7 +185,7 @@ test('verify: four variables are out of reach, said so rather than a poor number
   assert.match(v.error!.message, /out of reach/);
 });
 
-test('compare: a Lorentzian-Euclidean pair differing by the Fresnel phase exp(i pi/4) — Fresnel on the line (REFERENCES)', () => {
+test('compare: a Lorentzian-Euclidean pair differing by the Fresnel phase exp(i pi/4) — Fresnel on the line (docs/references.md)', () => {
   const r = run('param w : positive\nintegral E = exp(-w*x^2/2) d(x)\nintegral L = exp(i*w*x^2/2) d(x)\ncompare L with E\ncompare E with E');
   assert.equal(r.statements[3]!.verdict, 'phase');
   assert.equal(r.statements[3]!.phaseOverPiQuarter, 1);
@@ -196,7 +196,7 @@ test('compare: a Lorentzian-Euclidean pair differing by the Fresnel phase exp(i 
   assert.equal(d.phaseOverPiQuarter, null);
 });
 
-test('let and limit: lam -> 0 limit is the square of the one-variable result; k -> inf behaves like 2 pi / k; -log of the one-variable result is (1/2) log k + const — REFERENCES facts of the trade, DLMF ch. 5 (Gamma(1/2))', () => {
+test('let and limit: lam -> 0 limit is the square of the one-variable result; k -> inf behaves like 2 pi / k; -log of the one-variable result is (1/2) log k + const — docs/references.md facts of the trade, DLMF ch. 5 (Gamma(1/2))', () => {
   const r = run(`${MODES}\nlimit Z : lam -> 0\nlimit Z : k -> inf\nintegral G1 = exp(-k*x^2/2) d(x)\nlet F = -log(G1)`);
   const lim0 = r.statements[3]!; const limInf = r.statements[4]!; const F = r.statements[6]!;
   for (const k of [0.5, 2, 7]) {

@@ -305,25 +305,16 @@ function gaussDet(m: GQ[][]): GQ {
   return d;
 }
 
-test('speed: a 3x3 in one parameter well under 10 ms; 8x8 tridiagonal in two parameters under 100 ms', () => {
+test('minors of a 3x3 in one parameter and of 8x8 tridiagonal and diagonal matrices in two parameters have the degrees worked out by hand (timings are in npm run bench, not here)', () => {
   const d = polyAdd(c(30), polyScale(t, GI));
   const M3 = [[d, c(1), polyScale(t, 2)], [c(1), d, c(0, 1)], [polyScale(t, 2), c(0, 1), d]];
-  leadingMinors(M3); // warm-up (JIT)
-  let t0 = performance.now();
-  for (let j = 0; j < 10; j++) leadingMinors(M3);
-  const per3 = (performance.now() - t0) / 10;
-  assert.ok(per3 < 10, `3x3: ${per3} ms`);
+  assert.equal(degree(leadingMinors(M3)[2]!, 't'), 3);
   const n = 8;
   const M8 = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) =>
     i === j ? polyAdd(polyScale(k, i + 1), polyScale(t, gint(0, 1))) : Math.abs(i - j) === 1 ? polyAdd(c(1), polyScale(g, q(1n, 2n))) : ZERO));
-  // best of three: the first run includes JIT warm-up, and the machine may be shared
-  let mins: Poly[] = [], ms8 = Infinity;
-  for (let j = 0; j < 3; j++) { t0 = performance.now(); mins = leadingMinors(M8); ms8 = Math.min(ms8, performance.now() - t0); }
-  assert.ok(ms8 < 100, `8x8 tridiagonal: ${ms8} ms`);
+  const mins: Poly[] = leadingMinors(M8);
   assert.equal(totalDegree(mins[7]!), 8);
   const D8 = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? polyAdd(c(i + 1), polyScale(t, GI)) : ZERO)));
-  t0 = performance.now();
   const dd = leadingMinors(D8);
-  assert.ok(performance.now() - t0 < 100);
   assert.equal(degree(dd[7]!, 't'), 8);
 });

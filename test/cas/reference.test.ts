@@ -1,13 +1,16 @@
 /**
  * Reference checks against published formulas (sources named beside each
- * check, as listed in the project's REFERENCES file). The expected values are
- * computed here from the published formula, with mathjs, never by cas/.
+ * check, as listed in docs/references.md). The expected values are computed here
+ * from the published formula, with mathjs, never by cas/. Where a formula needs
+ * det(A)^(1/2), it is taken from sqrtDetAlongPath (test/cas/support/reference.ts):
+ * sqrt(det((1 - t) I + t A)) followed continuously from 1 at t = 0, with mathjs
+ * determinants -- not from eigenvalues and principal roots, the rule cas/ uses.
  */
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import * as math from 'mathjs';
 import { statement, run } from './support/run.js';
-import { gaussianLine, lit, relErr, withEigenvalues, type Cx } from './support/reference.js';
+import { gaussianLine, lit, relErr, sqrtDetAlongPath, withEigenvalues, type Cx } from './support/reference.js';
 
 const mc = (z: Cx) => math.complex(z.re, z.im);
 const cx = (z: math.Complex): Cx => ({ re: z.re, im: z.im });
@@ -23,8 +26,9 @@ test('1-D Gaussian with source — Gradshteyn & Ryzhik 3.323.2 (number from memo
     const s = statement(`integral G = exp(-${lit(p2)}*x^2 + ${lit(q)}*x) d(x)`, 'G');
     assert.equal(s.status, 'ok');
     assert.equal(s.convergence, 'absolute');
-    // sqrt(pi)/p * exp(q^2/(4 p^2)), p = principal sqrt(p^2) since Re p^2 > 0
-    const p = math.sqrt(mc(p2)) as math.Complex;
+    // sqrt(pi)/p * exp(q^2/(4 p^2)), p the root of p^2 with Re p > 0: here sqrt(p^2) continued from 1
+    // along (1 - t) + t p^2 (Re > 0 on the whole path), not the principal root cas/ takes
+    const p = mc(sqrtDetAlongPath([[p2]]));
     const expected = cx(math.multiply(math.divide(Math.sqrt(Math.PI), p), math.exp(math.divide(math.multiply(mc(q), mc(q)), math.multiply(4, mc(p2))) as math.Complex)) as math.Complex);
     assert.ok(s.result?.value, 'a numeric value');
     assert.ok(relErr(s.result.value, expected) < 1e-12, `relative error ${relErr(s.result.value, expected)}`);
@@ -56,15 +60,19 @@ test('Fresnel on the line — from the Fresnel limits C(inf) = S(inf) = 1/2, NIS
   }
 });
 
-test('n-D Gaussian, det^(-1/2) by continuation = product of principal roots of eigenvalues — Folland, Harmonic Analysis in Phase Space, App. A (from memory); Hörmander vol. I, 3.4 (from memory)', () => {
+test('n-D Gaussian, det^(-1/2) by continuation from the identity (expected value from sqrt(det) followed along the straight path, not from eigenvalues) — Folland, Harmonic Analysis in Phase Space, App. A (from memory); Hörmander vol. I, 3.4 (from memory)', () => {
   // A = Q diag(lambda) Q^T with known eigenvalues; their arguments sum beyond pi, so principal sqrt(det A) is wrong.
   const lambda: Cx[] = [{ re: 0.3, im: 1.9 }, { re: 0.5, im: 2.4 }, { re: 0.2, im: 1.1 }];
   const A = withEigenvalues(lambda, [[1, 0.3, -0.2], [0.4, 1, 0.5], [-0.6, 0.1, 1]]);
   const J: Cx[] = [{ re: 0.2, im: 0.1 }, { re: -0.3, im: 0 }, { re: 0.1, im: 0.4 }];
   const s = statement(gaussianLine('Z', A, J), 'Z');
   assert.equal(s.convergence, 'absolute');
-  let root = math.complex(1, 0);
-  for (const l of lambda) root = math.multiply(root, math.sqrt(mc(l))) as math.Complex;
+  // det(A)^(1/2) continued from the identity along (1 - t) I + t A (Re > 0 on the whole path,
+  // so det never vanishes): an independent route, sharing nothing with cas/'s eigenvalue rule
+  const root = mc(sqrtDetAlongPath(A));
+  // the case is the intended one: the continued root is minus the principal root of det A
+  const principal = math.sqrt(math.det(A.map((r) => r.map(mc))) as unknown as math.Complex) as math.Complex;
+  assert.ok(relErr(cx(principal), cx(math.multiply(root, -1) as math.Complex)) < 1e-9, 'principal sqrt(det A) is the other branch');
   const inv = math.inv(A.map((r) => r.map(mc))) as unknown as math.Complex[][];
   let q = math.complex(0, 0);
   for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) q = math.add(q, math.multiply(math.multiply(mc(J[r]!), inv[r]![c]!), mc(J[c]!))) as math.Complex;
@@ -95,7 +103,7 @@ test('n-D Fresnel with signature — Hörmander vol. I, Theorem 7.6.1 (number fr
   }
 });
 
-test('two-variable form [[k, i lam], [i lam, k]] gives 2 pi / sqrt(k^2 + lam^2), and 2 pi / k at lam = 0 — common practice (REFERENCES, facts of the trade)', () => {
+test('two-variable form [[k, i lam], [i lam, k]] gives 2 pi / sqrt(k^2 + lam^2), and 2 pi / k at lam = 0 — common practice (docs/references.md, facts of the trade)', () => {
   const src = [
     'param k : positive', 'param lam : real',
     'integral Z = exp(-(k*a^2 + 2*i*lam*a*b + k*b^2)/2) d(a, b)',

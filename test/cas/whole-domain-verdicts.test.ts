@@ -17,7 +17,7 @@ import type { StatementReport, Step } from '../../shared/evaluation.js';
 const stepOf = <K extends Step['kind']>(s: StatementReport, kind: K) => s.steps.find((x): x is Extract<Step, { kind: K }> => x.kind === kind);
 const rel = (a: { re: number; im: number }, b: { re: number; im: number }) => Math.hypot(a.re - b.re, a.im - b.im) / Math.hypot(b.re, b.im);
 
-test('example 1: (30 + i t) I_3 crosses the principal cut exactly at t = 30*sqrt(3); the printed form is right everywhere; the stated expect fails beyond — crossing against an mpmath scan, value against mathjs pivots (REFERENCES n-D Gaussian, Folland App. A, from memory)', () => {
+test('example 1: (30 + i t) I_3 crosses the principal cut exactly at t = 30*sqrt(3); the printed form is right everywhere; the stated expect fails beyond — crossing against an mpmath scan, value against mathjs pivots (docs/references.md n-D Gaussian, Folland App. A, from memory)', () => {
   const r = run('param t : positive\nintegral T = exp(-(30 + i*t)*(x^2 + y^2 + z^2)/2) d(x, y, z)\nexpect T = (2*pi)^(3/2)/sqrt((30 + i*t)^3)\nverify T at t = 100');
   const T = r.statements[1]!;
   assert.equal(T.convergence, 'absolute');
@@ -64,7 +64,7 @@ test('example 3: semidefinite Re A with A nonsingular is 2*pi by i*epsilon — i
   const c = stepOf(f, 'convergence')!;
   assert.equal(c.reason, 'source-grows');
   assert.match(renderStep(c).text, /grows along the real line; the value below is the i\*epsilon/);
-  // the i*epsilon value: sqrt(2 pi) e^(i pi/4) e^(i J^2/2) (Fresnel on the line, REFERENCES, with the source completed)
+  // the i*epsilon value: sqrt(2 pi) e^(i pi/4) e^(i J^2/2) (Fresnel on the line, docs/references.md, with the source completed)
   for (const J of [0.3, 1.7]) {
     const got = math.evaluate(f.result!.text, { J }) as math.Complex;
     const want = math.multiply(Math.sqrt(2 * Math.PI), math.exp(math.complex(0, Math.PI / 4 + J * J / 2))) as math.Complex;

@@ -40,7 +40,7 @@ test('a failed expect makes the run not ok, with the point where it fails', () =
   assert.equal(r.ok, false);
 });
 
-test('expect is decided on the whole domain: same square and exponent exactly, same sign per cell (2 pi/sqrt(k^2 + lam^2), facts of the trade in REFERENCES)', () => {
+test('expect is decided on the whole domain: same square and exponent exactly, same sign per cell (2 pi/sqrt(k^2 + lam^2), facts of the trade in docs/references.md)', () => {
   const r = evaluateWorksheet(`${CANONICAL}\nexpect Z = 2*pi*sqrt(1/(k^2 + lam^2))`);
   assert.equal(r.statements[3]!.proof, 'proved');
   assert.equal(r.statements[4]!.status, 'ok');

@@ -38,6 +38,25 @@ export class ApiClient {
     return { status: res.status, json, text, headers: res.headers };
   }
 
+  /**
+   * A streamed POST (Accept: text/event-stream) with the session cookie and XSRF header: the
+   * raw Response, so a test can read progress events as they come or drop the connection.
+   */
+  async stream(path: string, body: unknown, signal?: AbortSignal): Promise<Response> {
+    if (!this.cookies.has('XSRF-TOKEN')) await this.request('GET', '/api/health');
+    return fetch(this.baseUrl + path, {
+      method: 'POST',
+      headers: {
+        'content-type': 'application/json',
+        accept: 'text/event-stream',
+        'x-xsrf-token': decodeURIComponent(this.cookies.get('XSRF-TOKEN')!),
+        cookie: [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '),
+      },
+      body: JSON.stringify(body),
+      ...(signal ? { signal } : {}),
+    });
+  }
+
   /** A multipart upload with one file in the field "file" (like a browser form). */
   async upload(path: string, fileName: string, bytes: Uint8Array | string, fields: Record<string, string> = {}) {
     if (!this.cookies.has('XSRF-TOKEN')) await this.request('GET', '/api/health');

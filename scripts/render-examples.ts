@@ -1,0 +1,67 @@
+/**
+ * Regenerates the example outputs in README.md and docs/worksheet-language.md from their
+ * worksheets, so the documentation shows real runs of the current core:
+ *   node_modules/.bin/tsx scripts/render-examples.ts          # rewrite the files
+ *   node_modules/.bin/tsx scripts/render-examples.ts --check  # exit 1 when an output is stale
+ * An example is a fenced worksheet block, then a line
+ * "`npm run -s sheetwise -- eval NAME.swk` (exit code N):", then a fenced output block;
+ * "`npm run -s sheetwise -- eval NAME.swk --json` prints …:" is followed by pretty-printed JSON.
+ */
+import { readFileSync, writeFileSync } from 'node:fs';
+import { evaluateWorksheet } from '../cas/index.js';
+import { formatReport } from '../cas/cli/format.js';
+
+const FILES = ['README.md', 'docs/worksheet-language.md'];
+const FENCE = '```';
+
+/** Replace the fenced block that starts at or after line `from` with `body`; returns the index after it. */
+function replaceBlock(lines: string[], from: number, body: string[]): number {
+  const open = lines.findIndex((l, k) => k >= from && l.startsWith(FENCE));
+  const close = lines.findIndex((l, k) => k > open && l.startsWith(FENCE));
+  lines.splice(open + 1, close - open - 1, ...body);
+  return open + body.length + 2;
+}
+
+export function render(text: string): string {
+  const lines = text.split('\n');
+  const sources = new Map<string, string>();
+  let lastSource: string[] = [];
+  for (let k = 0; k < lines.length; k++) {
+    const line = lines[k]!;
+    if (line.startsWith(FENCE)) {
+      const close = lines.findIndex((l, j) => j > k && l.startsWith(FENCE));
+      lastSource = lines.slice(k + 1, close);
+      k = close;
+      continue;
+    }
+    const evalLine = /^`npm run -s sheetwise -- eval ([\w.-]+\.swk)( --json)?`/.exec(line);
+    if (!evalLine) continue;
+    const file = evalLine[1]!;
+    const json = !!evalLine[2];
+    const source = json ? sources.get(file) : lastSource.join('\n');
+    if (source === undefined) throw new Error(`no worksheet for ${file}`);
+    sources.set(file, source);
+    const report = evaluateWorksheet(`${source}\n`, { file });
+    // timings vary from run to run; they are not part of what the documentation shows
+    const stable = JSON.parse(JSON.stringify(report, (key, v) => (key === 'timeMs' ? 0 : v)));
+    if (json) k = replaceBlock(lines, k + 1, JSON.stringify(stable, null, 2).split('\n')) - 1;
+    else {
+      lines[k] = `\`npm run -s sheetwise -- eval ${file}\` (exit code ${report.ok ? 0 : 1}):`;
+      k = replaceBlock(lines, k + 1, formatReport(stable).replace(/, \d+ ms\./g, '.').split('\n')) - 1;
+    }
+  }
+  return lines.join('\n');
+}
+
+if (process.argv[1] && import.meta.url.endsWith(process.argv[1].split('/').pop()!)) {
+  const check = process.argv.includes('--check');
+  let stale = false;
+  for (const f of FILES) {
+    const before = readFileSync(f, 'utf8');
+    const after = render(before);
+    if (after === before) continue;
+    if (check) { console.error(`${f}: example outputs are stale; run node_modules/.bin/tsx scripts/render-examples.ts`); stale = true; }
+    else { writeFileSync(f, after); console.log(`${f}: example outputs regenerated`); }
+  }
+  process.exit(stale ? 1 : 0);
+}
