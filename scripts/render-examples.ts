@@ -22,6 +22,25 @@ function replaceBlock(lines: string[], from: number, body: string[]): number {
   return open + body.length + 2;
 }
 
+/** The worksheets of a document's examples, by file name. */
+export function exampleSources(text: string): Map<string, string> {
+  const out = new Map<string, string>();
+  const lines = text.split('\n');
+  let last: string[] = [];
+  for (let k = 0; k < lines.length; k++) {
+    const line = lines[k]!;
+    if (line.startsWith(FENCE)) {
+      const close = lines.findIndex((l, j) => j > k && l.startsWith(FENCE));
+      last = lines.slice(k + 1, close);
+      k = close;
+      continue;
+    }
+    const m = /^`npm run -s sheetwise -- eval ([\w.-]+\.swk)`/.exec(line);
+    if (m && !out.has(m[1]!)) out.set(m[1]!, last.join('\n'));
+  }
+  return out;
+}
+
 export function render(text: string): string {
   const lines = text.split('\n');
   const sources = new Map<string, string>();

@@ -271,6 +271,8 @@ export const step = z.discriminatedUnion('kind', [
     correction: z.object({ formula: formula.nullable(), power: z.number() }).optional(),
     constantTerm: complexValue.optional(),
     at: pointValues.optional(),
+    /** For a limit 0 found by expansion: the leading term it is approached like. */
+    rate: formula.optional(),
   }),
 ]);
 export type Step = z.infer<typeof step>;

@@ -5,7 +5,13 @@
  */
 import type { StatementReport } from '../../shared/evaluation.js';
 import type { Statement } from '../lang/ast.js';
-import { div } from '../expr/build.js';
+import { div, mul } from '../expr/build.js';
+import { squareForm } from '../verdicts/squareForm.js';
+import { rfDiv, rfEquals, rfSub, ratfunc } from '../exact/ratfunc.js';
+import { polyConst } from '../exact/poly.js';
+import { sqrtExpr } from '../expr/fromExact.js';
+import { fresnelPhase } from '../gaussian/closedForm.js';
+import type { Expr } from '../lang/ast.js';
 import { toLatex, toText } from '../expr/print.js';
 import { tidy } from '../expr/tidy.js';
 import { rewriteChecked } from '../algebra/adapter.js';
@@ -49,7 +55,15 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
   // the symbolic ratio, kept only when it agrees with the numbers
   let ratioText: string | null = null;
   let ratioLatex: string | null = null;
-  if (a.expr && b.expr) {
+  // exact first: equal exponentials and a constant ratio of squares give |ratio| exactly and its phase as m*pi/4
+  const exact = a.expr && b.expr ? exactConstantRatio(a.expr, b.expr, r0) : null;
+  if (exact) {
+    const agrees = ratios.every(({ p, r }) => {
+      try { const v = ratioAt(exact, p); return Math.hypot(v.re - r.re, v.im - r.im) <= 1e-8 * Math.max(1, Math.hypot(r.re, r.im)); } catch { return false; }
+    });
+    if (agrees) { ratioText = toText(exact); ratioLatex = toLatex(exact); }
+  }
+  if (ratioText === null && a.expr && b.expr) {
     const sym = rewriteChecked('simplify', div(a.expr, b.expr), points.slice(0, 8));
     const t = tidy(sym.expr);
     const symAgrees = ratios.every(({ p, r }) => {
@@ -80,3 +94,43 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
 
 import { evaluate } from '../expr/evaluate.js';
 function ratioAt(e: Parameters<typeof evaluate>[0], p: Parameters<typeof evaluate>[1]) { return evaluate(e, p); }
+
+/**
+ * A/B as r * exp(i*pi*m/4) with r exact, when A and B have equal exponentials and the ratio of
+ * their squares is a constant c with c real or purely imaginary; the sign (which root of c)
+ * from the computed ratio r0, so the printed phase is exact: exp(3*i*pi/4)*sqrt(2), not 131836323*i/186444716 + ….
+ */
+function exactConstantRatio(a: Expr, b: Expr, r0: { re: number; im: number }): Expr | null {
+  const fa = squareForm(a); const fb = squareForm(b);
+  if (!fa || !fb) return null;
+  // exponentials may differ by a constant phase i*pi*q (exp(3*i*pi/4) against none)
+  let quarterTurns = 0;
+  if (!rfEquals(fa.S, fb.S)) {
+    const d = rfSub(fa.S, fb.S);
+    const t = [...d.num.terms.values()];
+    if (d.den.terms.size !== 1 || [...d.den.terms.values()][0]!.m.length || t.length !== 1) return null;
+    const only = t[0]!; const den = [...d.den.terms.values()][0]!.c;
+    if (only.m.length !== 1 || only.m[0]![0] !== 'pi' || only.m[0]![1] !== 1 || only.c.re.n !== 0n || den.im.n !== 0n) return null;
+    const qn = only.c.im.n * den.re.d * 4n; const qd = only.c.im.d * den.re.n;
+    if (qn % qd !== 0n) return null;
+    quarterTurns = Number(qn / qd);
+  }
+  const c = rfDiv(fa.sq, fb.sq);
+  if (c.num.terms.size > 1 || c.den.terms.size !== 1 || [...c.num.terms.values()].some((t) => t.m.length) || [...c.den.terms.values()].some((t) => t.m.length)) return null;
+  const cv = [...c.num.terms.values()][0]?.c;
+  const dv = [...c.den.terms.values()][0]!.c;
+  if (!cv || dv.im.n !== 0n) return null;
+  const re = { n: cv.re.n * dv.re.d, d: cv.re.d * dv.re.n }; const im = { n: cv.im.n * dv.re.d, d: cv.im.d * dv.re.n };
+  if (re.n !== 0n && im.n !== 0n) return null;
+  const mag = re.n !== 0n ? re : im;
+  const abs = { n: mag.n < 0n ? -mag.n : mag.n, d: mag.d < 0n ? -mag.d : mag.d };
+  // arg c in quarter turns: 0 (positive), 2 (negative), 1 (i), -1 (-i); the ratio's phase is half of it, or that plus pi
+  const q = re.n > 0n || re.d < 0n && re.n < 0n ? 0 : re.n !== 0n ? 4 : (im.n > 0n) === (im.d > 0n) ? 2 : -2;
+  const half = q / 2;
+  const candidates = [half, half + 4].map((m) => (((m + quarterTurns) % 8) + 8) % 8);
+  const arg0 = Math.atan2(r0.im, r0.re);
+  const m = candidates.reduce((best, k) => (Math.abs(Math.cos(arg0 - (k * Math.PI) / 4) - 1) < Math.abs(Math.cos(arg0 - (best * Math.PI) / 4) - 1) ? k : best));
+  const r = sqrtExpr(ratfunc(polyConst({ re: abs, im: { n: 0n, d: 1n } })), new Set());
+  const phase = m === 0 ? null : fresnelPhase(m);
+  return phase ? (r.t === 'num' && r.v === '1' ? phase : mul(phase, r)) : r;
+}

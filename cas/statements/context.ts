@@ -28,6 +28,8 @@ export interface ResultInfo {
   /** The value on the continuous branch at a parameter point; null where it diverges. */
   valueAt: ((p: Point) => C | null) | null;
   gaussian?: GaussianInfo;
+  /** A derived quantity's definition as written (let), for routes that read its shape. */
+  definition?: Expr;
 }
 
 /** A result that has a value function: what resultNamed hands to the statements that use one. */

@@ -23,7 +23,7 @@ import { closedForm } from '../gaussian/closedForm.js';
 import { complexText, fmt, matrixLatex, matrixText, piMultiple, polar, quarterPhaseText, vectorLatex, vectorText } from '../gaussian/describe.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { integralDiagram } from './shared.js';
-import { pointText } from '../../shared/record/numbers.js';
+import { complexApprox, complexApproxLatex, pointText } from '../../shared/record/numbers.js';
 
 type IntegralStatement = Extract<Statement, { kind: 'integral' }>;
 
@@ -293,8 +293,10 @@ export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementR
   if (!symbolic && (n > 3 || !exactEntries(structural, split.prefactor))) {
     // Long decimal entries: a closed form would only restate the number, at great cost.
     const e = complexExpr(value!);
-    report.result = { text: toText(e), latex: toLatex(e), value: { re: value!.re, im: value!.im } };
-    report.steps.push({ kind: 'result', name, formula: formulaOf(e), written: 'numeric', verified: true, basis: { kind: 'numeric' }, value: { re: value!.re, im: value!.im }, pieces: [] });
+    // a number from floating point is printed with ≈, never dressed up as an exact form
+    const approxFormula = { text: complexApprox(value!, 15), latex: complexApproxLatex(value!, 15) };
+    report.result = { ...approxFormula, value: { re: value!.re, im: value!.im } };
+    report.steps.push({ kind: 'result', name, formula: approxFormula, written: 'numeric', verified: true, basis: { kind: 'numeric' }, value: { re: value!.re, im: value!.im }, pieces: [] });
     setResult(ctx, name, line, e, params, structural, split.prefactor, { integrand: s.integrand, vars, convergence });
     return report;
   }

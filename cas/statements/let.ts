@@ -88,6 +88,6 @@ export function evaluateLet(s: Extract<Statement, { kind: 'let' }>, ctx: Context
     kind: 'derived', name, definition: formulaOf(s.expr), closed: formHolds ? formulaOf(form) : null,
     compared, agreeing: agree, usesResults: resultsUsed.length > 0, value,
   });
-  ctx.results.set(name, { line, unavailable: null, expr: formHolds ? form : null, params, valueAt });
+  ctx.results.set(name, { line, unavailable: null, expr: formHolds ? form : null, params, valueAt, definition: s.expr });
   return report;
 }

@@ -8,7 +8,7 @@
 import type { StatementReport } from '../../shared/evaluation.js';
 import type { Expr, Statement } from '../lang/ast.js';
 import { Complex } from 'complex.js';
-import { div, mul, name as nameExpr, num, pow, sub, call } from '../expr/build.js';
+import { div, mul, name as nameExpr, neg, num, pow, sub, call } from '../expr/build.js';
 import { evaluate } from '../expr/evaluate.js';
 import { freeNames, substitute } from '../expr/names.js';
 import { formulaOf, toText } from '../expr/print.js';
@@ -20,6 +20,11 @@ import { complexExpr } from '../expr/numberExpr.js';
 import { recognizeConstant } from '../expr/recognize.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { resultNamed } from './shared.js';
+import { exactLimit } from './limitExact.js';
+import type { Approach } from '../verdicts/asymptotics.js';
+import { fromExpr } from '../exact/ratfunc.js';
+import { variables } from '../exact/poly.js';
+import type { Step } from '../../shared/evaluation.js';
 
 type V = { re: number; im: number };
 const rd = (a: V, b: V) => Math.hypot(a.re - b.re, a.im - b.im) / Math.max(Math.hypot(b.re, b.im), 1e-300);
@@ -39,6 +44,8 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
   const pts = others.length ? samplePoints(domainsOf(ctx, others), others, 6, 99) : [new Map()];
   const at = (p: Point, x: Complex) => { const q = new Map(p); q.set(pn, x); return r.valueAt(q); };
   const dom = ctx.params.get(pn)!.domain;
+  const exact = exactRoute(s, r, ctx, pn, dom);
+  if (exact) { report.steps.push(exact.step); report.result = exact.result; return report; }
   if (s.to !== 'inf' && s.to !== '-inf') {
     const to = s.to;
     if (freeNames(to).size) throw new StatementFailure('The limit point must be a number.', line, s.span.start.column);
@@ -156,10 +163,12 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
       }
     }
   }
-  report.result = { ...formulaOf(lead), value: null };
+  // A power fitted to values at large p, or a constant read off there, is a guess, not a limit: unknown.
+  const guessed = logLike || method === 'read-off' || method === 'recognised';
+  report.result = guessed ? { text: 'unknown', latex: '\\text{unknown}', value: null } : { ...formulaOf(lead), value: null };
   report.steps.push({
     kind: 'limit', name, param: pn, to: { text: s.to, latex: s.to === 'inf' ? '\\infty' : '-\\infty' },
-    outcome: 'asymptotic', formula: formulaOf(lead), value: null,
+    outcome: guessed ? 'unknown' : 'asymptotic', formula: guessed ? null : formulaOf(lead), value: guessed ? vals[2] ?? null : null,
     method: logLike ? 'logarithmic' : method,
     basis: others.length ? sampledBasis(domainsOf(ctx, others), others, pts.length) : { kind: 'numeric' },
     power: alpha,
@@ -167,4 +176,60 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
     ...(constantTerm ? { constantTerm } : {}),
   });
   return report;
+}
+
+/** A let that is c*log(Z) of an integral Z, c a constant or the parameter: its parts. */
+function logOfIntegral(def: Expr, pn: string): { target: string; c0: Expr; power: number } | null {
+  if (def.t === 'neg') { const m = logOfIntegral(def.a, pn); return m && { ...m, c0: neg(m.c0) }; }
+  if (def.t === 'call' && def.fn === 'log' && def.args[0]!.t === 'name') return { target: def.args[0]!.name, c0: num(1), power: 0 };
+  if (def.t === 'bin' && def.op === '*') {
+    for (const [f, other] of [[def.a, def.b], [def.b, def.a]] as const) {
+      const m = logOfIntegral(f, pn);
+      if (!m) continue;
+      if (other.t === 'name' && other.name === pn) return { ...m, power: m.power + 1 };
+      if (freeNames(other).size === 0) return { ...m, c0: mul(m.c0, other) };
+    }
+  }
+  return null;
+}
+
+/** The exact expansion route (verdicts/asymptotics.ts) for integral results and c*log of them. */
+function exactRoute(s: Extract<Statement, { kind: 'limit' }>, r: ReturnType<typeof resultNamed>, ctx: Context, pn: string, dom: string): { step: Step; result: { text: string; latex: string; value: null } } | null {
+  let g = r.gaussian;
+  let logFactor: { c0: Expr; power: number } | null = null;
+  if (!g && r.definition) {
+    const m = logOfIntegral(r.definition, pn);
+    const target = m ? ctx.results.get(m.target) : null;
+    if (!m || !target?.gaussian) return null;
+    g = target.gaussian;
+    logFactor = { c0: m.c0, power: m.power };
+  }
+  if (!g || g.contour) return null;
+  const domains = domainsOf(ctx, [...ctx.params.keys()]);
+  let how: Approach;
+  if (s.to === 'inf' || s.to === '-inf') {
+    if ((dom === 'positive' && s.to === '-inf') || (dom === 'negative' && s.to === 'inf')) return null;
+    how = { kind: s.to };
+  } else {
+    const v = fromExpr(s.to);
+    const c = v && variables(v.num).length === 0 && variables(v.den).length === 0 ? [...v.num.terms.values()][0]?.c ?? { re: { n: 0n, d: 1n }, im: { n: 0n, d: 1n } } : null;
+    if (!c || c.im.n !== 0n) return null;
+    const at = c.re;
+    const zero = at.n === 0n;
+    // a domain end is approached from inside; an interior point from both sides, which must agree
+    const sides: (1 | -1)[] = zero && dom === 'positive' ? [1] : zero && dom === 'negative' ? [-1] : [1, -1];
+    const results = sides.map((side) => exactLimit(g!, pn, { kind: 'point', at, side }, domains, logFactor));
+    if (results.some((x) => !x) || results.some((x) => x!.formula.text !== results[0]!.formula.text || x!.outcome !== results[0]!.outcome)) return null;
+    how = { kind: 'point', at, side: sides[0]! };
+  }
+  const res = exactLimit(g, pn, how, domains, logFactor);
+  if (!res) return null;
+  const outcome = res.outcome;
+  const step: Step = {
+    kind: 'limit', name: s.target.name, param: pn,
+    to: s.to === 'inf' || s.to === '-inf' ? { text: s.to, latex: s.to === 'inf' ? '\\infty' : '-\\infty' } : formulaOf(s.to),
+    outcome, formula: res.formula, value: null, method: 'expansion', basis: { kind: 'proved' },
+    ...(res.rate ? { rate: res.rate } : {}),
+  };
+  return { step, result: { text: res.formula.text, latex: res.formula.latex, value: null } };
 }

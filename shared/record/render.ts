@@ -348,11 +348,11 @@ function limit(s: StepOf<'limit'>): RenderedStep {
         recognised: 'a constant recognised from its values and confirmed at a larger value (checked, not proved)',
         'read-off': 'values read off at large parameter (checked numerically only)',
         logarithmic: 'logarithmic growth read off values at large parameter (checked numerically only)',
-        expansion: 'an exact expansion',
+        expansion: `an exact expansion (${basisText(s.basis)})`,
         none: '',
       };
       const corr = s.correction ? `; next correction ${s.correction.formula ? s.correction.formula.text : `like ${s.param}^(${digits(s.correction.power, 4)})`}` : '';
-      const cterm = s.constantTerm ? `; the constant term is ${complexApprox(s.constantTerm, 10)}` : '';
+      const cterm = (s.constantTerm ? `; the constant term is ${complexApprox(s.constantTerm, 10)}` : '') + (s.rate ? `; it is approached like ${s.rate.text}` : '');
       return {
         text: `As ${arrow}, ${s.name} ${sym} ${f?.text ?? complexApprox(s.value ?? { re: NaN, im: NaN }, 10)}, by ${method[s.method]}${checks}${corr}${cterm}.`,
         latex: `${lhs} ${f?.latex ?? ''}`,

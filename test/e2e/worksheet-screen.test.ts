@@ -96,8 +96,8 @@ test('the demo author sees the findings, types an integral and gets its KaTeX re
   assert.ok((await fresh.getByTestId('finding-step').count()) >= 2, 'the steps of the record are listed');
   assert.match(await fresh.locator('[data-badge="convergence"]').innerText(), /Converges absolutely/);
   // The plane shows only what the report's diagram data gives (the client draws nothing of its
-  // own): a drawing, or the note that this statement has nothing to draw.
-  await page.locator('[data-testid="diagram"] [data-role], [data-testid="diagram-empty"]').first().waitFor({ state: 'attached' });
+  // own); an integral's record carries its real contour, the principal cut and the eigenvalues.
+  await page.getByTestId('diagram').locator('[data-role="contour"]').first().waitFor({ state: 'attached' });
   await waitSaved(page);
   await screenshot(page, 'worksheet-screen-light');
   mkdirSync('docs', { recursive: true });
