@@ -22,10 +22,9 @@ function replaceBlock(lines: string[], from: number, body: string[]): number {
   return open + body.length + 2;
 }
 
-/** The worksheets of a document's examples, by file name. */
-export function exampleSources(text: string): Map<string, string> {
-  const out = new Map<string, string>();
-  const lines = text.split('\n');
+/** The examples of a document: each eval line with its file, whether it prints JSON, and the worksheet it runs. */
+function* examples(lines: readonly string[]): Generator<{ index: number; file: string; json: boolean; source: string }> {
+  const sources = new Map<string, string>();
   let last: string[] = [];
   for (let k = 0; k < lines.length; k++) {
     const line = lines[k]!;
@@ -35,38 +34,34 @@ export function exampleSources(text: string): Map<string, string> {
       k = close;
       continue;
     }
-    const m = /^`npm run -s sheetwise -- eval ([\w.-]+\.swk)`/.exec(line);
-    if (m && !out.has(m[1]!)) out.set(m[1]!, last.join('\n'));
+    const m = /^`npm run -s sheetwise -- eval ([\w.-]+\.swk)( --json)?`/.exec(line);
+    if (!m) continue;
+    const file = m[1]!; const json = !!m[2];
+    const source = json ? sources.get(file) : last.join('\n');
+    if (source === undefined) throw new Error(`no worksheet for ${file}`);
+    sources.set(file, source);
+    yield { index: k, file, json, source };
   }
+}
+
+/** The worksheets of a document's examples, by file name. */
+export function exampleSources(text: string): Map<string, string> {
+  const out = new Map<string, string>();
+  for (const e of examples(text.split('\n'))) if (!out.has(e.file)) out.set(e.file, e.source);
   return out;
 }
 
 export function render(text: string): string {
   const lines = text.split('\n');
-  const sources = new Map<string, string>();
-  let lastSource: string[] = [];
-  for (let k = 0; k < lines.length; k++) {
-    const line = lines[k]!;
-    if (line.startsWith(FENCE)) {
-      const close = lines.findIndex((l, j) => j > k && l.startsWith(FENCE));
-      lastSource = lines.slice(k + 1, close);
-      k = close;
-      continue;
-    }
-    const evalLine = /^`npm run -s sheetwise -- eval ([\w.-]+\.swk)( --json)?`/.exec(line);
-    if (!evalLine) continue;
-    const file = evalLine[1]!;
-    const json = !!evalLine[2];
-    const source = json ? sources.get(file) : lastSource.join('\n');
-    if (source === undefined) throw new Error(`no worksheet for ${file}`);
-    sources.set(file, source);
+  // replace from the end, so earlier indices stay valid
+  for (const { index, file, json, source } of [...examples(lines)].reverse()) {
     const report = evaluateWorksheet(`${source}\n`, { file });
     // timings vary from run to run; they are not part of what the documentation shows
     const stable = JSON.parse(JSON.stringify(report, (key, v) => (key === 'timeMs' ? 0 : v)));
-    if (json) k = replaceBlock(lines, k + 1, JSON.stringify(stable, null, 2).split('\n')) - 1;
+    if (json) replaceBlock(lines, index + 1, JSON.stringify(stable, null, 2).split('\n'));
     else {
-      lines[k] = `\`npm run -s sheetwise -- eval ${file}\` (exit code ${report.ok ? 0 : 1}):`;
-      k = replaceBlock(lines, k + 1, formatReport(stable).replace(/, \d+ ms\./g, '.').split('\n')) - 1;
+      lines[index] = `\`npm run -s sheetwise -- eval ${file}\` (exit code ${report.ok ? 0 : 1}):`;
+      replaceBlock(lines, index + 1, formatReport(stable).replace(/, \d+ ms\./g, '.').split('\n'));
     }
   }
   return lines.join('\n');
