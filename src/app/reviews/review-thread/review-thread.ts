@@ -64,10 +64,17 @@ export class ReviewThread {
   protected readonly composeError = signal<Partial<Record<number, string | null>>>({});
   protected readonly busy = signal(false);
 
+  private readonly statementKey = computed(() => this.statement()?.key);
+  private shownKey: string | undefined;
+
   constructor() {
-    // A different statement: start over.
+    // A different statement: start over. Only a change of key counts: the same statement
+    // arriving again (a recomputed report, reloaded reviews) must not drop a half-made request.
     effect(() => {
-      this.statement()?.key;
+      const key = this.statementKey();
+      // the thread's statement may be missing for a moment while reviews or the report reload
+      if (key === undefined || key === this.shownKey) return;
+      this.shownKey = key;
       this.asking.set(false);
       this.askError.set(null);
       this.chosen.set(new Set());
