@@ -14,7 +14,11 @@ const failed = (err: unknown) => `The evaluation stopped: ${err instanceof Error
  * disconnects cancels the work. `checked` is what checkEvaluationLimits returned.
  * Resolves to null when the answer has already been sent (streamed, failed or cancelled).
  */
-export async function evaluateForRequest(pool: EvaluationPool, source: string, checked: CheckedWorksheet, req: Request, res: Response): Promise<WorksheetReport | null> {
+/**
+ * `beforeSend` runs on the finished report before the caller hears of it (the streamed
+ * `report` event, or the return): a report that is stored is stored before anyone can ask for it.
+ */
+export async function evaluateForRequest(pool: EvaluationPool, source: string, checked: CheckedWorksheet, req: Request, res: Response, beforeSend?: (report: WorksheetReport) => Promise<void>): Promise<WorksheetReport | null> {
   const aborter = new AbortController();
   res.on('close', () => {
     if (!res.writableFinished) aborter.abort();
@@ -22,7 +26,9 @@ export async function evaluateForRequest(pool: EvaluationPool, source: string, c
   const streaming = req.accepts(['application/json', 'text/event-stream']) === 'text/event-stream';
   if (!streaming) {
     try {
-      return await pool.evaluate(source, { signal: aborter.signal });
+      const report = await pool.evaluate(source, { signal: aborter.signal });
+      await beforeSend?.(report);
+      return report;
     } catch (err) {
       if (err instanceof MalformedReport) throw new HttpError(500, 'evaluation_failed', failed(err));
       throw err;
@@ -37,6 +43,7 @@ export async function evaluateForRequest(pool: EvaluationPool, source: string, c
       signal: aborter.signal,
       progress: { total: checked.statements, onProgress: (p: EvaluationProgress) => send('progress', p) },
     });
+    await beforeSend?.(report);
     send('report', report);
     return report;
   } catch (err) {

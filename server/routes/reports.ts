@@ -29,9 +29,9 @@ export function reportRoutes(pool: EvaluationPool): Router {
     const id = idParam(routeParam(req, 'id'), 'This worksheet');
     const { worksheet } = await requireWorksheetRole(currentUser(req).id, id, 'read');
     const checked = checkEvaluationLimits(worksheet.source);
-    const report = await evaluateForRequest(pool, worksheet.source, checked, req, res);
+    // stored before the report is sent, so a GET right after the stream sees it
+    const report = await evaluateForRequest(pool, worksheet.source, checked, req, res, (r) => storeReport(id, worksheet.version, r));
     if (!report) return;
-    await storeReport(id, worksheet.version, report);
     const body: StoredReportResponse = { version: worksheet.version, engine: ENGINE_VERSION, current: report.engine === ENGINE_VERSION, report };
     if (!res.headersSent) res.json(body);
   });
