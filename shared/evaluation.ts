@@ -273,6 +273,8 @@ export const step = z.discriminatedUnion('kind', [
     at: pointValues.optional(),
     /** For a limit 0 found by expansion: the leading term it is approached like. */
     rate: formula.optional(),
+    /** For an unknown limit: why the exact expansion could not decide it. */
+    reason: z.string().optional(),
   }),
 ]);
 export type Step = z.infer<typeof step>;

@@ -18,7 +18,7 @@ function statementLines(s: StatementReport): string[] {
   if (s.convergence) out.push(`  convergence: ${s.convergence} (${convBasis === 'sampled' ? 'sampled, not proved' : convBasis === 'numeric' ? 'decided in double precision' : 'proved'})`);
   if (s.result) {
     out.push(`  result: ${s.name ?? ''} ${s.result.text.startsWith('≈') ? '' : '= '}${s.result.text}`);
-    if (s.result.value) out.push(`  value: ${complexApprox(s.result.value, 17)}`);
+    if (s.result.value) out.push(`  value: ${complexApprox(s.result.value, 15)}`);
   }
   if (s.branch) out.push(`  branch: principal sqrt(det A) ${{ right: 'is correct', wrong: 'is NOT correct', piecewise: 'is correct only on part of the domain', unknown: 'undecided' }[s.branch.principal]}`);
   if (s.legal !== undefined) out.push(`  legal: ${s.legal}`);

@@ -21,6 +21,7 @@ import { recognizeConstant } from '../expr/recognize.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { resultNamed } from './shared.js';
 import { exactLimit } from './limitExact.js';
+import { generalLimit } from './limitGeneral.js';
 import type { Approach } from '../verdicts/asymptotics.js';
 import { fromExpr } from '../exact/ratfunc.js';
 import { variables } from '../exact/poly.js';
@@ -46,6 +47,9 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
   const dom = ctx.params.get(pn)!.domain;
   const exact = exactRoute(s, r, ctx, pn, dom);
   if (exact) { report.steps.push(exact.step); report.result = exact.result; return report; }
+  const general = generalRoute(s, ctx, pn, dom, pts, r.valueAt);
+  if (general && 'step' in general) { report.steps.push(general.step); report.result = general.result; return report; }
+  const reason = general?.reason;
   if (s.to !== 'inf' && s.to !== '-inf') {
     const to = s.to;
     if (freeNames(to).size) throw new StatementFailure('The limit point must be a number.', line, s.span.start.column);
@@ -64,10 +68,12 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
       const target = candidate ? exprAt(candidate, p) : null;
       const near = at(p, new Complex(v.re + dir * 1e-7, v.im));
       if (!near) continue;
-      if (target) { worst = Math.max(worst, rd(near, target)); checked++; }
+      const d = target ? rd(near, target) : NaN;
+      if (Number.isFinite(d)) { worst = Math.max(worst, d); checked++; }
     }
     const holds = candidate !== null && checked > 0 && worst < 1e-5;
-    const numeric = at(pts[0]!, new Complex(v.re + dir * 1e-7, v.im));
+    const nearby = at(pts[0]!, new Complex(v.re + dir * 1e-7, v.im));
+    const numeric = nearby && Number.isFinite(nearby.re) && Number.isFinite(nearby.im) ? nearby : null;
     report.result = holds
       ? { ...formulaOf(candidate!), value: freeNames(candidate!).size ? null : exprAt(candidate!, new Map()) }
       : { text: 'unknown', latex: '\\text{unknown}', value: null };
@@ -77,6 +83,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
       formula: holds ? formulaOf(candidate!) : null,
       value: holds ? report.result.value : numeric,
       method: holds ? (how.startsWith('substituting') ? 'substitution' : 'algebra-limit') : 'none',
+      ...(!holds && reason ? { reason } : {}),
       basis: others.length ? sampledBasis(domainsOf(ctx, others), others, checked, holds ? checked : 0) : { kind: 'numeric' },
       checks: { count: checked, worst },
     });
@@ -170,12 +177,53 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
     kind: 'limit', name, param: pn, to: { text: s.to, latex: s.to === 'inf' ? '\\infty' : '-\\infty' },
     outcome: guessed ? 'unknown' : 'asymptotic', formula: guessed ? null : formulaOf(lead), value: guessed ? vals[2] ?? null : null,
     method: logLike ? 'logarithmic' : method,
+    ...(guessed && reason ? { reason } : {}),
     basis: others.length ? sampledBasis(domainsOf(ctx, others), others, pts.length) : { kind: 'numeric' },
     power: alpha,
     ...(correctionStep ? { correction: correctionStep } : {}),
     ...(constantTerm ? { constantTerm } : {}),
   });
   return report;
+}
+
+/** How p approaches the limit point: one side at a domain end, both sides (which must agree) inside. */
+function approachesOf(s: Extract<Statement, { kind: 'limit' }>, dom: string): Approach[] | null {
+  if (s.to === 'inf' || s.to === '-inf') {
+    if ((dom === 'positive' && s.to === '-inf') || (dom === 'negative' && s.to === 'inf')) return null;
+    return [{ kind: s.to }];
+  }
+  const v = fromExpr(s.to);
+  const c = v && variables(v.num).length === 0 && variables(v.den).length === 0 ? [...v.num.terms.values()][0]?.c ?? { re: { n: 0n, d: 1n }, im: { n: 0n, d: 1n } } : null;
+  if (!c || c.im.n !== 0n) return null;
+  const zero = c.re.n === 0n;
+  const sides: (1 | -1)[] = zero && dom === 'positive' ? [1] : zero && dom === 'negative' ? [-1] : [1, -1];
+  return sides.map((side) => ({ kind: 'point', at: c.re, side }));
+}
+
+/** The general expansion route (statements/limitGeneral.ts) for derived quantities and any result it can read. */
+function generalRoute(
+  s: Extract<Statement, { kind: 'limit' }>, ctx: Context, pn: string, dom: string, pts: Point[],
+  valueAt: (p: Point) => { re: number; im: number } | null,
+): { step: Step; result: { text: string; latex: string; value: null } } | { reason: string } | null {
+  if (dom === 'complex') return { reason: `${pn} is complex; limits are taken along the real axis of a real parameter` };
+  const hows = approachesOf(s, dom);
+  if (!hows) return null;
+  const domains = domainsOf(ctx, [...ctx.params.keys()]);
+  if ([...domains.values()].includes('complex')) return { reason: 'a complex parameter is present; the expansion needs real parameters to decide signs' };
+  const resolve = (n: string) => { const r = ctx.results.get(n); return r ? { ...(r.gaussian ? { gaussian: r.gaussian } : {}), ...(r.definition ? { definition: r.definition } : {}) } : null; };
+  const results = hows.map((how) => generalLimit(nameExpr(s.target.name), pn, how, domains, resolve, { points: pts, valueAt }));
+  const first = results[0]!;
+  if (first.outcome === 'unknown') return { reason: first.reason };
+  const other = results.find((x) => x.outcome === 'unknown' || x.outcome !== first.outcome || x.formula.text !== first.formula.text);
+  if (other) return { reason: other.outcome === 'unknown' ? other.reason : 'the two sides of the limit point disagree' };
+  const step: Step = {
+    kind: 'limit', name: s.target.name, param: pn,
+    to: s.to === 'inf' || s.to === '-inf' ? { text: s.to, latex: s.to === 'inf' ? '\\infty' : '-\\infty' } : formulaOf(s.to),
+    outcome: first.outcome, formula: first.formula, value: null, method: 'expansion', basis: { kind: 'proved' },
+    ...(first.rate ? { rate: first.rate } : {}),
+    ...(first.correction && hows.length === 1 ? { correction: { formula: first.correction.formula, power: first.correction.power } } : {}),
+  };
+  return { step, result: { text: first.formula.text, latex: first.formula.latex, value: null } };
 }
 
 /** A let that is c*log(Z) of an integral Z, c a constant or the parameter: its parts. */

@@ -84,6 +84,10 @@ function sweep(g: GaussianInfo, points: readonly Point[], angles: readonly numbe
         let lo = prev; let hi = t;
         if (k === 0) { lo = 0; hi = 0; }
         for (let it = 0; it < 50 && hi - lo > 1e-13; it++) { const m = (lo + hi) / 2; if (bad(m)) hi = m; else lo = m; }
+        // Growth that starts at once: Re A is singular at t = 0 and the first derivative of
+        // Re(D A D), -(theta_r + theta_c) Im A_rc, is negative along its null direction. Then the
+        // first bad angle is t = 0+, not a small number that bisection happens to stop at.
+        if (hi < 1e-6 && growsAtOnce(A, angles, tol)) hi = 0;
         const e = symEig(reA(A, angles, Math.min(1, hi + 1e-6)));
         return { legal: false, firstBad: hi, direction: e.vectors[0]!.map((x) => Number(x.toPrecision(6)) + 0), at: p, method: 'grid', count: (k + 1) * points.indexOf(p) + k + 1 };
       }
@@ -91,6 +95,19 @@ function sweep(g: GaussianInfo, points: readonly Point[], angles: readonly numbe
     }
   }
   return { legal: true, firstBad: null, direction: null, at: null, method: 'grid', count: (GRID + 1) * points.length };
+}
+
+/** Re A has a null direction v at t = 0 along which d/dt v^T Re(D A D) v < 0. */
+function growsAtOnce(A: { n: number; re: Float64Array; im: Float64Array }, angles: readonly number[], tol: number): boolean {
+  const n = A.n;
+  const e = symEig(reA(A, angles, 0));
+  return e.values.some((lambda, k) => {
+    if (Math.abs(lambda) > tol) return false;
+    const v = e.vectors[k]!;
+    let d = 0;
+    for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) d -= v[r]! * v[c]! * (angles[r]! + angles[c]!) * (A.im[r * n + c]! + A.im[c * n + r]!) / 2;
+    return d < -tol;
+  });
 }
 
 export function evaluateRotate(s: Extract<Statement, { kind: 'rotate' }>, ctx: Context): StatementReport {

@@ -20,6 +20,7 @@
  */
 import type { Domain, ExactNumber, Formula } from '../../shared/evaluation.js';
 import type { Expr } from '../lang/ast.js';
+import { RF0 } from '../exact/ratfunc.js';
 import { type GQ, gToNumber, qint, type Q } from '../exact/q.js';
 import { type Poly, polyMul, polyConj, realPart as polyRe, imagPart as polyIm, isZero, substitute, polyConst, variables } from '../exact/poly.js';
 import { ratfunc, rfEvalExact, rfIsZero, type RatFunc } from '../exact/ratfunc.js';
@@ -214,8 +215,11 @@ export function analyzeOnLine(form: ExactForm, domains: ReadonlyMap<string, Doma
   }
   // J may hold parameters A does not: the source check then needs them too
   const jParams = [...new Set(J.flatMap((x) => [...variables(x.num), ...variables(x.den)]))].filter((v) => v !== scaledBy);
+  let sourceFree = false;
   if (jParams.some((p) => !params.includes(p))) {
     if (params.length === 0 && jParams.length === 1 && domains.get(jParams[0]!) !== 'complex') params = [jParams[0]!];
+    // the source enters a verdict only where Re A is singular; decide A first and refuse if it is needed
+    else if (jParams.every((p) => domains.has(p) && domains.get(p) !== 'complex')) sourceFree = true;
     else return null;
   }
   const param = params[0] ?? null;
@@ -232,8 +236,9 @@ export function analyzeOnLine(form: ExactForm, domains: ReadonlyMap<string, Doma
   }
   const domain = param ? domains.get(param)! : 'real';
   const cells: Cell[] = param ? cellsOf(polys, domain) : [{ kind: 'interval', lo: null, hi: null, sample: qint(0) }];
-  const exactForm = { ...form, A, J };
+  const exactForm = { ...form, A, J: sourceFree ? J.map(() => RF0) : J };
   const verdicts = cells.map((cell) => { checkDeadline(); return cellVerdict(exactForm, reA, minorsRe, minorsA, det, param, cell); });
+  if (sourceFree && verdicts.some((v) => v.convergence !== 'absolute' && v.convergence !== 'divergent')) return null;
   return { param, scaledBy, cells: verdicts, minorsRe, minorsA, det };
 }
 

@@ -78,7 +78,7 @@ function branch(s: StepOf<'branch'>): RenderedStep {
     const range = piMultipleText(lo) === piMultipleText(hi) ? `is ${piMultipleText(lo)}` : `lies between ${piMultipleText(lo)} and ${piMultipleText(hi)}`;
     const near = s.nearCut ? `; ${s.nearCut} of them lie within 0.1 rad of the cut, where a continuous branch could differ` : ', away from the cut';
     return {
-      text: `${s.fn}(${s.argument?.text ?? ''}) is taken on the principal branch (cut on the negative real axis): the argument of ${s.argument?.text ?? ''} ${range} at ${basisText(s.basis)}${near}.`,
+      text: `${s.fn}(${s.argument?.text ?? ''}) is taken on the principal branch (cut on the negative real axis): the argument of ${s.argument?.text ?? ''} ${range} (${basisText(s.basis)})${near}.`,
       latex: `\\${s.fn === 'log' ? 'log' : 'sqrt'}\\ ${tex('principal')}`,
     };
   }
@@ -241,7 +241,7 @@ function legality(s: StepOf<'legality'>): RenderedStep {
     };
   }
   const fb = s.firstBad;
-  const first = fb?.angle ? fb.angle.text : fb?.t !== undefined ? `t ${approx(fb.t)} of the sweep (${Object.entries(fb.perVariable).map(([v, a]) => `${v} at ${a.text}`).join(', ')})` : 'an angle of the sweep';
+  const first = fb?.angle ? fb.angle.text : fb?.t === 0 ? 'the start of the sweep (t = 0+: Re A is singular there and the rotation turns its null direction into a growing one)' : fb?.t !== undefined ? `t ${approx(fb.t)} of the sweep (${Object.entries(fb.perVariable).map(([v, a]) => `${v} at ${a.text}`).join(', ')})` : 'an angle of the sweep';
   const at = s.at && Object.keys(s.at).length ? ` (at ${pointText(s.at)})` : '';
   const dir = s.direction ? `, along the real direction ≈ (${s.direction.map((x) => digits(x)).join(', ')})` : '';
   return { text: `Not allowed: the integrand grows on the swept family, first at ${first}${at}${dir}; ${how}. No rotated result.`, latex: '\\operatorname{Re}\\left(D A D\\right) \\not\\succeq 0' };
@@ -336,7 +336,7 @@ function limit(s: StepOf<'limit'>): RenderedStep {
   const checks = s.checks ? ` (checked numerically at ${plural(s.checks.count, 'point')}, largest relative difference ${approx(s.checks.worst, 3)})` : '';
   switch (s.outcome) {
     case 'unknown':
-      return { text: `As ${arrow}, the limit of ${s.name} is unknown: no exact expansion was found${s.value ? `; near the end point the value is ${complexApprox(s.value, 10)}, which is not a limit` : ''}.`, latex: `\\lim_{${s.param} \\to ${latexTo}} ${s.name}\\ ${tex('unknown')}` };
+      return { text: `As ${arrow}, the limit of ${s.name} is unknown: ${s.reason ? `the exact expansion could not decide it (${s.reason})` : 'no exact expansion was found'}${s.value ? `; near the end point the value is ${complexApprox(s.value, 10)}, which is not a limit` : ''}.`, latex: `\\lim_{${s.param} \\to ${latexTo}} ${s.name}\\ ${tex('unknown')}` };
     case 'divergent':
       return { text: `As ${arrow}, ${s.name} diverges${f ? ` like ${f.text}` : ''} (${basisText(s.basis)}).`, latex: `${s.name} \\sim ${f?.latex ?? '\\infty'}` };
     case 'oscillating':
@@ -364,7 +364,7 @@ function limit(s: StepOf<'limit'>): RenderedStep {
 export function renderStep(step: Step): RenderedStep {
   switch (step.kind) {
     case 'param': return {
-      text: `${list(step.names)} ${step.names.length > 1 ? 'are' : 'is'} ${DOMAIN_HELP[step.domain]}.`,
+      text: `${list(step.names)} ${step.names.length > 1 ? 'are each' : 'is'} ${DOMAIN_HELP[step.domain]}.`,
       latex: `${step.names.join(', ')} \\in ${{ positive: '(0, \\infty)', negative: '(-\\infty, 0)', real: '\\mathbb{R}', complex: '\\mathbb{C}', nonzero: '\\mathbb{R} \\setminus \\{0\\}' }[step.domain]}`,
     };
     case 'note': return { text: step.text, latex: '' };

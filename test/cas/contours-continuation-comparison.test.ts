@@ -272,3 +272,22 @@ test('verify quadrature: the three interchangeable rules agree, and a case whose
     }
   }
 });
+
+test('a rotation that is illegal at once is reported at t = 0+, not at a small t where bisection stopped — mathjs eigenvalues of Re(D A D) at t = 1e-9 and the allowed opposite direction', () => {
+  // Re A = [[1, 1], [1, 1]] is singular along (1, -1); Im A = [[0, 1], [1, 0]].
+  const r = run('integral W = exp(-(x^2 + 2*(1 + i)*x*y + y^2)/2) d(x, y)\nrotate W : x -> exp(-i*pi/4)*x, y -> exp(-i*pi/4)*y as WR\nrotate W : x -> exp(i*pi/8)*x, y -> exp(i*pi/8)*y as WS');
+  const bad = r.statements[1]!.steps.find((s) => s.kind === 'legality')!;
+  assert.equal(bad.kind === 'legality' && bad.legal, false);
+  assert.equal(bad.kind === 'legality' && bad.firstBad?.t, 0);
+  assert.match(renderStep(bad).text, /t = 0\+/);
+  // independent: the smallest eigenvalue of Re(e^(2 i t theta) A) just after the start, both directions
+  const reRot = (theta: number, t: number) => {
+    const ph = math.complex({ abs: 1, arg: 2 * t * theta });
+    const A = [[math.complex(1, 0), math.complex(1, 1)], [math.complex(1, 1), math.complex(1, 0)]];
+    return A.map((row) => row.map((z) => (math.multiply(z, ph) as math.Complex).re));
+  };
+  const smallest = (m: number[][]) => Math.min(...(math.eigs(m).values as number[]));
+  assert.ok(smallest(reRot(-Math.PI / 4, 1e-9)) < 0);
+  assert.ok(smallest(reRot(Math.PI / 8, 1e-9)) >= -1e-15);
+  assert.equal(r.statements[2]!.legal, true);
+});
