@@ -9,6 +9,7 @@ import { Complex } from 'complex.js';
 import { evaluateWorksheet } from '../cas/index.js';
 import { followPath } from '../cas/numeric/continuation.js';
 import { cmat, type CMat } from '../cas/numeric/cmatrix.js';
+import { pfaffianFloatLog } from '../cas/numeric/pfaffian.js';
 
 /** A fixed numeric complex symmetric matrix with positive definite real part. */
 function numericIntegral(n: number): string {
@@ -101,6 +102,21 @@ rows.push(['continue, numeric n = 20, 1000 steps (core)', timeContinuation(20, 1
 
 // verify: the quadrature of the numeric integrals above, n = 1..3
 for (let n = 1; n <= 3; n++) rows.push([`verify, numeric n = ${n}`, timeStatement(`${numericIntegral(n)}\nverify N${n}`, 1, n === 3 ? 10 : 20)]);
+
+// Pfaffian, floating point (Parlett-Reid, cas/numeric/pfaffian.ts): a fixed complex antisymmetric
+// matrix, n = 200, in its log form (no overflow). Aim: well under a second.
+function timePfaffian(n: number, runs: number): number[] {
+  const A = Array.from({ length: n }, () => Array.from({ length: n }, () => ({ re: 0, im: 0 })));
+  for (let r = 0; r < n; r++) for (let c = r + 1; c < n; c++) {
+    const z = { re: Math.sin(r + 2 * c), im: 0.5 * Math.cos(3 * r + c) };
+    A[r]![c] = z; A[c]![r] = { re: -z.re, im: -z.im };
+  }
+  pfaffianFloatLog(A); // warm-up
+  const out: number[] = [];
+  for (let k = 0; k < runs; k++) { const t0 = performance.now(); pfaffianFloatLog(A); out.push(performance.now() - t0); }
+  return out;
+}
+rows.push(['pfaffian, float n = 200 (core)', timePfaffian(200, 20)]);
 const evaluations = [1, 2, 3].map((n) => {
   const report = evaluateWorksheet(`${numericIntegral(n)}\nverify N${n}`);
   const v = report.statements[1]!;

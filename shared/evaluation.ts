@@ -8,7 +8,7 @@ import { diagramData } from './diagram.js';
 import { DOMAINS } from './language.js';
 
 export const STATEMENT_KINDS = [
-  'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'invalid',
+  'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'moment', 'derivative', 'invalid',
 ] as const;
 export type StatementKind = (typeof STATEMENT_KINDS)[number];
 
@@ -253,6 +253,47 @@ export const step = z.discriminatedUnion('kind', [
     compared: z.number(), agreeing: z.number(),
     usesResults: z.boolean(),
     value: complexValue.nullable(),
+  }),
+  z.object({
+    /** moment NAME = P under Z: the Gaussian average of a polynomial by Wick (Isserlis) contractions. */
+    kind: z.literal('moment'),
+    name: z.string(),
+    under: z.string(),
+    polynomial: formula,
+    /** The mean A^-1 J and the covariance A^-1 of the normalised Gaussian weight. */
+    mean: z.array(formula),
+    covariance: z.array(z.array(formula)),
+    /** Pairings summed over the monomials after shifting by the mean ((2m-1)!! for degree 2m). */
+    pairings: z.number(),
+    result: formula,
+    /** Where the average exists: the convergence verdict of the weight it is taken under. */
+    convergence: z.enum(CONVERGENCE_VERDICTS),
+  }),
+  z.object({
+    /** derivative NAME = EXPR by p: exact by the chain rule, log Z differentiated through its pivots. */
+    kind: z.literal('derivative'),
+    name: z.string(),
+    param: z.string(),
+    of: formula,
+    result: formula,
+    /** Each result Z used enters through d log Z / dp, a rational function: listed here. */
+    logDerivatives: z.array(z.object({ name: z.string(), formula })),
+    checks: z.object({ count: z.number(), worst: z.number() }),
+  }),
+  z.object({
+    /** Complex and Grassmann integration variables: the measure convention the result depends on. */
+    kind: z.literal('variables'),
+    complex: z.array(z.object({ name: z.string(), re: z.string(), im: z.string() })),
+    grassmann: z.array(z.string()),
+  }),
+  z.object({
+    /** The Berezin integral of exp(-1/2 theta^T A theta): Pf(A) with the measure in the order written. */
+    kind: z.literal('berezin'),
+    vars: z.array(z.string()),
+    A: z.array(z.array(formula)),
+    pfaffian: formula,
+    /** A constant factor exp(c) from the exponent's theta-free part, when there is one. */
+    constant: formula.nullable(),
   }),
   z.object({
     kind: z.literal('limit'),

@@ -12,7 +12,7 @@
 /** Statement keywords with their form, a worked example and a sentence of help. */
 export const STATEMENTS = {
   param: { form: 'param NAME, ... : DOMAIN', example: 'param k : positive', help: 'Declare parameters and their domain.' },
-  integral: { form: 'integral NAME = EXPR d(VARS)', example: 'integral Z = exp(-k*x^2/2) d(x)', help: 'A Gaussian integral over the listed real variables.' },
+  integral: { form: 'integral NAME = EXPR d(VARS) [d(VARS : complex) d(VARS : grassmann)]', example: 'integral Z = exp(-k*x^2/2) d(x)', help: 'A Gaussian integral over real variables, complex variables (d^2z = dx dy) or Grassmann variables (Berezin, integrated in the order written).' },
   expect: { form: 'expect NAME = EXPR', example: 'expect Z = sqrt(2*pi/k)', help: 'State the expected value; a mismatch fails the worksheet.' },
   let: { form: 'let NAME = EXPR', example: 'let F = -log(Z)', help: 'Name a quantity derived from results and parameters.' },
   rotate: { form: 'rotate NAME : VAR -> FACTOR*VAR, ... as NEW', example: 'rotate Z : x -> exp(-i*pi/4)*x as ZR', help: 'Turn the contour of a variable; the rotation is checked.' },
@@ -20,13 +20,15 @@ export const STATEMENTS = {
   compare: { form: 'compare NAME with NAME', example: 'compare ZL with Z', help: 'The ratio of two results, its phase and a verdict.' },
   verify: { form: 'verify NAME [at NAME = VALUE, ...] [with tolerance T]', example: 'verify Z at k = 2', help: 'Check a result by numerical quadrature along its contour.' },
   limit: { form: 'limit NAME : PARAM -> VALUE | inf | -inf', example: 'limit Z : k -> inf', help: 'The limit or leading behaviour of a result.' },
+  moment: { form: 'moment NAME = POLYNOMIAL under RESULT', example: 'moment X2 = x^2 under Z', help: 'The Gaussian average of a polynomial in the variables of an integral, by Wick contractions.' },
+  derivative: { form: 'derivative NAME = EXPR by PARAM', example: 'derivative E = -log(Z) by beta', help: 'The exact derivative of a quantity built from results and parameters.' },
   note: { form: 'note "TEXT"', example: 'note "Euclidean version first."', help: 'Free text kept with the record.' },
 } as const;
 export type StatementKeyword = keyof typeof STATEMENTS;
 export const STATEMENT_KEYWORDS = Object.keys(STATEMENTS) as StatementKeyword[];
 
 /** Words that appear inside statements (after the keyword). */
-export const CLAUSE_WORDS = ['along', 'as', 'at', 'with', 'tolerance', 'steepest', 'inf'] as const;
+export const CLAUSE_WORDS = ['along', 'as', 'at', 'with', 'tolerance', 'steepest', 'inf', 'under', 'by', 'grassmann'] as const;
 
 export const DOMAINS = ['positive', 'negative', 'real', 'complex', 'nonzero'] as const;
 export type Domain = (typeof DOMAINS)[number];
@@ -47,6 +49,7 @@ export const FUNCTIONS = {
   cos: 'cosine',
   sinh: 'hyperbolic sine',
   cosh: 'hyperbolic cosine',
+  conj: 'complex conjugate; conj(z) of a complex integration variable z is its own variable',
 } as const;
 export type FunctionName = keyof typeof FUNCTIONS;
 export const FUNCTION_NAMES = Object.keys(FUNCTIONS) as FunctionName[];

@@ -13,6 +13,7 @@ const FN: Record<string, (z: Complex) => Complex> = {
   sinh: (z) => z.sinh(),
   cosh: (z) => z.cosh(),
   abs: (z) => new Complex(z.abs(), 0),
+  conj: (z) => z.conjugate(),
 };
 
 /** z^w with an exact integer power by repeated multiplication (complex.js pow goes through log). */

@@ -19,7 +19,7 @@ export interface NameRef { name: string; span: Span }
 
 export type Statement =
   | { kind: 'param'; names: NameRef[]; domain: Domain; span: Span }
-  | { kind: 'integral'; name: NameRef; integrand: Expr; vars: NameRef[]; span: Span }
+  | { kind: 'integral'; name: NameRef; integrand: Expr; vars: NameRef[]; kinds?: VariableKind[]; span: Span }
   | { kind: 'expect'; name: NameRef; expr: Expr; span: Span }
   | { kind: 'note'; text: string; span: Span }
   | { kind: 'let'; name: NameRef; expr: Expr; span: Span }
@@ -27,7 +27,12 @@ export type Statement =
   | { kind: 'continue'; target: NameRef; params: NameRef[]; points: Expr[][]; at: Binding[]; span: Span }
   | { kind: 'compare'; target: NameRef; other: NameRef; span: Span }
   | { kind: 'verify'; target: NameRef; at: Binding[]; tolerance: Expr | null; span: Span }
-  | { kind: 'limit'; target: NameRef; param: NameRef; to: Expr | 'inf' | '-inf'; span: Span };
+  | { kind: 'limit'; target: NameRef; param: NameRef; to: Expr | 'inf' | '-inf'; span: Span }
+  | { kind: 'moment'; name: NameRef; expr: Expr; target: NameRef; span: Span }
+  | { kind: 'derivative'; name: NameRef; expr: Expr; param: NameRef; span: Span };
+
+/** An integration variable's kind: real (dx), complex (d^2z = dx dy), or Grassmann (Berezin). */
+export type VariableKind = 'real' | 'complex' | 'grassmann';
 
 /** One variable of a rotation: x -> FACTOR*x (the factor read off at evaluation), or x -> steepest. */
 export type RotateMove =

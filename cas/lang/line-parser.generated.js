@@ -185,27 +185,32 @@ function peg$parse(input, options) {
   const peg$c11 = "d";
   const peg$c12 = "(";
   const peg$c13 = ")";
-  const peg$c14 = "expect";
-  const peg$c15 = "let";
-  const peg$c16 = "note";
-  const peg$c17 = "\"";
-  const peg$c18 = "rotate";
-  const peg$c19 = "as";
-  const peg$c20 = "->";
-  const peg$c21 = "steepest";
-  const peg$c22 = "continue";
-  const peg$c23 = "along";
-  const peg$c24 = "at";
-  const peg$c25 = "compare";
-  const peg$c26 = "with";
-  const peg$c27 = "verify";
-  const peg$c28 = "tolerance";
-  const peg$c29 = ".";
-  const peg$c30 = "-";
-  const peg$c31 = "limit";
-  const peg$c32 = "inf";
-  const peg$c33 = "+";
-  const peg$c34 = "^";
+  const peg$c14 = "grassmann";
+  const peg$c15 = "moment";
+  const peg$c16 = "under";
+  const peg$c17 = "derivative";
+  const peg$c18 = "by";
+  const peg$c19 = "expect";
+  const peg$c20 = "let";
+  const peg$c21 = "note";
+  const peg$c22 = "\"";
+  const peg$c23 = "rotate";
+  const peg$c24 = "as";
+  const peg$c25 = "->";
+  const peg$c26 = "steepest";
+  const peg$c27 = "continue";
+  const peg$c28 = "along";
+  const peg$c29 = "at";
+  const peg$c30 = "compare";
+  const peg$c31 = "with";
+  const peg$c32 = "verify";
+  const peg$c33 = "tolerance";
+  const peg$c34 = ".";
+  const peg$c35 = "-";
+  const peg$c36 = "limit";
+  const peg$c37 = "inf";
+  const peg$c38 = "+";
+  const peg$c39 = "^";
 
   const peg$r0 = /^[^\n]/;
   const peg$r1 = /^[^"\n]/;
@@ -236,100 +241,116 @@ function peg$parse(input, options) {
   const peg$e16 = peg$literalExpectation("d", false);
   const peg$e17 = peg$literalExpectation("(", false);
   const peg$e18 = peg$literalExpectation(")", false);
-  const peg$e19 = peg$literalExpectation("expect", false);
-  const peg$e20 = peg$literalExpectation("let", false);
-  const peg$e21 = peg$literalExpectation("note", false);
-  const peg$e22 = peg$otherExpectation("a text in double quotes");
-  const peg$e23 = peg$literalExpectation("\"", false);
-  const peg$e24 = peg$classExpectation(["\"", "\n"], true, false, false);
-  const peg$e25 = peg$literalExpectation("rotate", false);
-  const peg$e26 = peg$literalExpectation("as", false);
-  const peg$e27 = peg$otherExpectation("a rotation such as x -> exp(i*theta)*x or x -> steepest");
-  const peg$e28 = peg$literalExpectation("->", false);
-  const peg$e29 = peg$literalExpectation("steepest", false);
-  const peg$e30 = peg$literalExpectation("continue", false);
-  const peg$e31 = peg$literalExpectation("along", false);
-  const peg$e32 = peg$otherExpectation("a parameter, or parameters in parentheses");
-  const peg$e33 = peg$otherExpectation("a point of the path (an expression, or a tuple in parentheses)");
-  const peg$e34 = peg$literalExpectation("at", false);
-  const peg$e35 = peg$otherExpectation("a value such as k = 2");
-  const peg$e36 = peg$literalExpectation("compare", false);
-  const peg$e37 = peg$literalExpectation("with", false);
-  const peg$e38 = peg$literalExpectation("verify", false);
-  const peg$e39 = peg$literalExpectation("tolerance", false);
-  const peg$e40 = peg$otherExpectation("a number");
-  const peg$e41 = peg$classExpectation([["0", "9"]], false, false, false);
-  const peg$e42 = peg$literalExpectation(".", false);
-  const peg$e43 = peg$classExpectation(["e", "E"], false, false, false);
-  const peg$e44 = peg$literalExpectation("-", false);
-  const peg$e45 = peg$literalExpectation("limit", false);
-  const peg$e46 = peg$otherExpectation("a value, inf or -inf");
-  const peg$e47 = peg$literalExpectation("inf", false);
-  const peg$e48 = peg$classExpectation(["+", "-"], false, false, false);
-  const peg$e49 = peg$classExpectation(["*", "/"], false, false, false);
-  const peg$e50 = peg$literalExpectation("+", false);
-  const peg$e51 = peg$literalExpectation("^", false);
-  const peg$e52 = peg$otherExpectation("a name");
-  const peg$e53 = peg$classExpectation([["A", "Z"], ["a", "z"]], false, false, false);
-  const peg$e54 = peg$classExpectation([["A", "Z"], ["a", "z"], ["0", "9"], "_"], false, false, false);
-  const peg$e55 = peg$otherExpectation("a space");
-  const peg$e56 = peg$classExpectation([" ", "\t"], false, false, false);
+  const peg$e19 = peg$otherExpectation("a kind of variable (real, complex or grassmann)");
+  const peg$e20 = peg$literalExpectation("grassmann", false);
+  const peg$e21 = peg$literalExpectation("moment", false);
+  const peg$e22 = peg$literalExpectation("under", false);
+  const peg$e23 = peg$literalExpectation("derivative", false);
+  const peg$e24 = peg$literalExpectation("by", false);
+  const peg$e25 = peg$literalExpectation("expect", false);
+  const peg$e26 = peg$literalExpectation("let", false);
+  const peg$e27 = peg$literalExpectation("note", false);
+  const peg$e28 = peg$otherExpectation("a text in double quotes");
+  const peg$e29 = peg$literalExpectation("\"", false);
+  const peg$e30 = peg$classExpectation(["\"", "\n"], true, false, false);
+  const peg$e31 = peg$literalExpectation("rotate", false);
+  const peg$e32 = peg$literalExpectation("as", false);
+  const peg$e33 = peg$otherExpectation("a rotation such as x -> exp(i*theta)*x or x -> steepest");
+  const peg$e34 = peg$literalExpectation("->", false);
+  const peg$e35 = peg$literalExpectation("steepest", false);
+  const peg$e36 = peg$literalExpectation("continue", false);
+  const peg$e37 = peg$literalExpectation("along", false);
+  const peg$e38 = peg$otherExpectation("a parameter, or parameters in parentheses");
+  const peg$e39 = peg$otherExpectation("a point of the path (an expression, or a tuple in parentheses)");
+  const peg$e40 = peg$literalExpectation("at", false);
+  const peg$e41 = peg$otherExpectation("a value such as k = 2");
+  const peg$e42 = peg$literalExpectation("compare", false);
+  const peg$e43 = peg$literalExpectation("with", false);
+  const peg$e44 = peg$literalExpectation("verify", false);
+  const peg$e45 = peg$literalExpectation("tolerance", false);
+  const peg$e46 = peg$otherExpectation("a number");
+  const peg$e47 = peg$classExpectation([["0", "9"]], false, false, false);
+  const peg$e48 = peg$literalExpectation(".", false);
+  const peg$e49 = peg$classExpectation(["e", "E"], false, false, false);
+  const peg$e50 = peg$literalExpectation("-", false);
+  const peg$e51 = peg$literalExpectation("limit", false);
+  const peg$e52 = peg$otherExpectation("a value, inf or -inf");
+  const peg$e53 = peg$literalExpectation("inf", false);
+  const peg$e54 = peg$classExpectation(["+", "-"], false, false, false);
+  const peg$e55 = peg$classExpectation(["*", "/"], false, false, false);
+  const peg$e56 = peg$literalExpectation("+", false);
+  const peg$e57 = peg$literalExpectation("^", false);
+  const peg$e58 = peg$otherExpectation("a name");
+  const peg$e59 = peg$classExpectation([["A", "Z"], ["a", "z"]], false, false, false);
+  const peg$e60 = peg$classExpectation([["A", "Z"], ["a", "z"], ["0", "9"], "_"], false, false, false);
+  const peg$e61 = peg$otherExpectation("a space");
+  const peg$e62 = peg$classExpectation([" ", "\t"], false, false, false);
 
   function peg$f0(s) {    return s;  }
   function peg$f1(names, domain) {    return { kind: 'param', names, domain, span: span() };  }
   function peg$f2(head, n) {    return n;  }
   function peg$f3(head, tail) {    return [head, ...tail];  }
   function peg$f4(d) {    return d;  }
-  function peg$f5(name, integrand, vars) {    return { kind: 'integral', name, integrand, vars, span: span() };  }
-  function peg$f6(vars) {    return vars;  }
-  function peg$f7(name, expr) {    return { kind: 'expect', name, expr, span: span() };  }
-  function peg$f8(name, expr) {    return { kind: 'let', name, expr, span: span() };  }
-  function peg$f9(text) {    return { kind: 'note', text, span: span() };  }
-  function peg$f10(chars) {    return chars;  }
-  function peg$f11(target, moves, as) {    return { kind: 'rotate', target, moves, as, span: span() };  }
-  function peg$f12(head, m) {    return m;  }
-  function peg$f13(head, tail) {    return [head, ...tail];  }
-  function peg$f14(variable) {    return { variable, to: 'steepest' };  }
-  function peg$f15(variable, to) {    return { variable, to };  }
-  function peg$f16(target, params, points, at) {    return { kind: 'continue', target, params, points, at: at ?? [], span: span() };  }
-  function peg$f17(names) {    return names;  }
-  function peg$f18(n) {    return [n];  }
-  function peg$f19(head, p) {    return p;  }
-  function peg$f20(head, tail) {    return [head, ...tail];  }
-  function peg$f21(head, e) {    return e;  }
-  function peg$f22(head, tail) {    return [head, ...tail];  }
-  function peg$f23(e) {    return [e];  }
-  function peg$f24(bindings) {    return bindings;  }
-  function peg$f25(head, b) {    return b;  }
+  function peg$f5(name, integrand, groups) {
+    const vars = groups.flatMap((g) => g.vars);
+    const kinds = groups.flatMap((g) => g.vars.map(() => g.kind));
+    return { kind: 'integral', name, integrand, vars, kinds, span: span() };
+  }
+  function peg$f6(head, m) {    return m;  }
+  function peg$f7(head, tail) {    return [head, ...tail];  }
+  function peg$f8(vars, k) {    return k;  }
+  function peg$f9(vars, kind) {    return { vars, kind: kind ?? 'real' };  }
+  function peg$f10(k) {    return k;  }
+  function peg$f11(name, expr, target) {    return { kind: 'moment', name, expr, target, span: span() };  }
+  function peg$f12(name, expr, param) {    return { kind: 'derivative', name, expr, param, span: span() };  }
+  function peg$f13(name, expr) {    return { kind: 'expect', name, expr, span: span() };  }
+  function peg$f14(name, expr) {    return { kind: 'let', name, expr, span: span() };  }
+  function peg$f15(text) {    return { kind: 'note', text, span: span() };  }
+  function peg$f16(chars) {    return chars;  }
+  function peg$f17(target, moves, as) {    return { kind: 'rotate', target, moves, as, span: span() };  }
+  function peg$f18(head, m) {    return m;  }
+  function peg$f19(head, tail) {    return [head, ...tail];  }
+  function peg$f20(variable) {    return { variable, to: 'steepest' };  }
+  function peg$f21(variable, to) {    return { variable, to };  }
+  function peg$f22(target, params, points, at) {    return { kind: 'continue', target, params, points, at: at ?? [], span: span() };  }
+  function peg$f23(names) {    return names;  }
+  function peg$f24(n) {    return [n];  }
+  function peg$f25(head, p) {    return p;  }
   function peg$f26(head, tail) {    return [head, ...tail];  }
-  function peg$f27(name, value) {    return { name, value };  }
-  function peg$f28(target, other) {    return { kind: 'compare', target, other, span: span() };  }
-  function peg$f29(target, at, tol) {    return { kind: 'verify', target, at: at ?? [], tolerance: tol ?? null, span: span() };  }
-  function peg$f30(t) {    return t;  }
-  function peg$f31(v) {    return { t: 'num', v: String(Number(v)), span: span() };  }
-  function peg$f32(target, param, to) {    return { kind: 'limit', target, param, to, span: span() };  }
-  function peg$f33() {    return '-inf';  }
-  function peg$f34() {    return 'inf';  }
-  function peg$f35(head, op, b) {    return [op, b];  }
-  function peg$f36(head, tail) {    return bin(head, tail);  }
-  function peg$f37(head, op, b) {    return [op, b];  }
-  function peg$f38(head, tail) {    return bin(head, tail);  }
-  function peg$f39(a) {    return { t: 'neg', a, span: span() };  }
-  function peg$f40(a) {    return a;  }
-  function peg$f41(base, e) {    return e;  }
-  function peg$f42(base, exp) {    return exp === null ? base : { t: 'bin', op: '^', a: base, b: exp, span: span() };  }
-  function peg$f43(e) {    return e;  }
-  function peg$f44(fn, args) {    return { t: 'call', fn, args, span: span() };  }
-  function peg$f45(head, e) {    return e;  }
-  function peg$f46(head, tail) {    return [head, ...tail];  }
-  function peg$f47(name) {
+  function peg$f27(head, e) {    return e;  }
+  function peg$f28(head, tail) {    return [head, ...tail];  }
+  function peg$f29(e) {    return [e];  }
+  function peg$f30(bindings) {    return bindings;  }
+  function peg$f31(head, b) {    return b;  }
+  function peg$f32(head, tail) {    return [head, ...tail];  }
+  function peg$f33(name, value) {    return { name, value };  }
+  function peg$f34(target, other) {    return { kind: 'compare', target, other, span: span() };  }
+  function peg$f35(target, at, tol) {    return { kind: 'verify', target, at: at ?? [], tolerance: tol ?? null, span: span() };  }
+  function peg$f36(t) {    return t;  }
+  function peg$f37(v) {    return { t: 'num', v: String(Number(v)), span: span() };  }
+  function peg$f38(target, param, to) {    return { kind: 'limit', target, param, to, span: span() };  }
+  function peg$f39() {    return '-inf';  }
+  function peg$f40() {    return 'inf';  }
+  function peg$f41(head, op, b) {    return [op, b];  }
+  function peg$f42(head, tail) {    return bin(head, tail);  }
+  function peg$f43(head, op, b) {    return [op, b];  }
+  function peg$f44(head, tail) {    return bin(head, tail);  }
+  function peg$f45(a) {    return { t: 'neg', a, span: span() };  }
+  function peg$f46(a) {    return a;  }
+  function peg$f47(base, e) {    return e;  }
+  function peg$f48(base, exp) {    return exp === null ? base : { t: 'bin', op: '^', a: base, b: exp, span: span() };  }
+  function peg$f49(e) {    return e;  }
+  function peg$f50(fn, args) {    return { t: 'call', fn, args, span: span() };  }
+  function peg$f51(head, e) {    return e;  }
+  function peg$f52(head, tail) {    return [head, ...tail];  }
+  function peg$f53(name) {
     // Euler's number is exp(1) in worksheets, so e is an ordinary name there; the
     // algebra adapter's answers (options.internal) may still use the constant e.
     if (name === 'i' || name === 'pi' || (name === 'e' && options.internal)) return { t: 'const', name, span: span() };
     return { t: 'name', name, span: span() };
   }
-  function peg$f48(v) {    return { t: 'num', v, span: span() };  }
-  function peg$f49(name) {    return { name, span: span() };  }
+  function peg$f54(v) {    return { t: 'num', v, span: span() };  }
+  function peg$f55(name) {    return { name, span: span() };  }
   let peg$currPos = options.peg$currPos | 0;
   let peg$savedPos = peg$currPos;
   const peg$posDetailsCache = [{ line: 1, column: 1 }];
@@ -623,6 +644,12 @@ function peg$parse(input, options) {
                     s0 = peg$parseVerify();
                     if (s0 === peg$FAILED) {
                       s0 = peg$parseLimit();
+                      if (s0 === peg$FAILED) {
+                        s0 = peg$parseMoment();
+                        if (s0 === peg$FAILED) {
+                          s0 = peg$parseDerivative();
+                        }
+                      }
                     }
                   }
                 }
@@ -864,7 +891,7 @@ function peg$parse(input, options) {
             s7 = peg$parseSum();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              s9 = peg$parseMeasure();
+              s9 = peg$parseMeasureList();
               if (s9 !== peg$FAILED) {
                 peg$savedPos = s0;
                 s0 = peg$f5(s3, s7, s9);
@@ -896,8 +923,48 @@ function peg$parse(input, options) {
     return s0;
   }
 
+  function peg$parseMeasureList() {
+    let s0, s1, s2, s3, s4, s5;
+
+    s0 = peg$currPos;
+    s1 = peg$parseMeasure();
+    if (s1 !== peg$FAILED) {
+      s2 = [];
+      s3 = peg$currPos;
+      s4 = peg$parse_();
+      s5 = peg$parseMeasure();
+      if (s5 !== peg$FAILED) {
+        peg$savedPos = s3;
+        s3 = peg$f6(s1, s5);
+      } else {
+        peg$currPos = s3;
+        s3 = peg$FAILED;
+      }
+      while (s3 !== peg$FAILED) {
+        s2.push(s3);
+        s3 = peg$currPos;
+        s4 = peg$parse_();
+        s5 = peg$parseMeasure();
+        if (s5 !== peg$FAILED) {
+          peg$savedPos = s3;
+          s3 = peg$f6(s1, s5);
+        } else {
+          peg$currPos = s3;
+          s3 = peg$FAILED;
+        }
+      }
+      peg$savedPos = s0;
+      s0 = peg$f7(s1, s2);
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+
+    return s0;
+  }
+
   function peg$parseMeasure() {
-    let s0, s1, s2, s3, s4, s5, s6, s7;
+    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10;
 
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 100) {
@@ -921,16 +988,271 @@ function peg$parse(input, options) {
         s5 = peg$parseNameList();
         if (s5 !== peg$FAILED) {
           s6 = peg$parse_();
-          if (input.charCodeAt(peg$currPos) === 41) {
-            s7 = peg$c13;
+          s7 = peg$currPos;
+          if (input.charCodeAt(peg$currPos) === 58) {
+            s8 = peg$c2;
             peg$currPos++;
           } else {
+            s8 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e6); }
+          }
+          if (s8 !== peg$FAILED) {
+            s9 = peg$parse_();
+            s10 = peg$parseVariableKind();
+            if (s10 !== peg$FAILED) {
+              peg$savedPos = s7;
+              s7 = peg$f8(s5, s10);
+            } else {
+              peg$currPos = s7;
+              s7 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s7;
             s7 = peg$FAILED;
+          }
+          if (s7 === peg$FAILED) {
+            s7 = null;
+          }
+          s8 = peg$parse_();
+          if (input.charCodeAt(peg$currPos) === 41) {
+            s9 = peg$c13;
+            peg$currPos++;
+          } else {
+            s9 = peg$FAILED;
             if (peg$silentFails === 0) { peg$fail(peg$e18); }
           }
-          if (s7 !== peg$FAILED) {
+          if (s9 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f6(s5);
+            s0 = peg$f9(s5, s7);
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+
+    return s0;
+  }
+
+  function peg$parseVariableKind() {
+    let s0, s1, s2, s3;
+
+    peg$silentFails++;
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 4) === peg$c6) {
+      s1 = peg$c6;
+      peg$currPos += 4;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e11); }
+    }
+    if (s1 === peg$FAILED) {
+      if (input.substr(peg$currPos, 7) === peg$c7) {
+        s1 = peg$c7;
+        peg$currPos += 7;
+      } else {
+        s1 = peg$FAILED;
+        if (peg$silentFails === 0) { peg$fail(peg$e12); }
+      }
+      if (s1 === peg$FAILED) {
+        if (input.substr(peg$currPos, 9) === peg$c14) {
+          s1 = peg$c14;
+          peg$currPos += 9;
+        } else {
+          s1 = peg$FAILED;
+          if (peg$silentFails === 0) { peg$fail(peg$e20); }
+        }
+      }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$currPos;
+      peg$silentFails++;
+      s3 = peg$parseIdChar();
+      peg$silentFails--;
+      if (s3 === peg$FAILED) {
+        s2 = undefined;
+      } else {
+        peg$currPos = s2;
+        s2 = peg$FAILED;
+      }
+      if (s2 !== peg$FAILED) {
+        peg$savedPos = s0;
+        s0 = peg$f10(s1);
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+    peg$silentFails--;
+    if (s0 === peg$FAILED) {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e19); }
+    }
+
+    return s0;
+  }
+
+  function peg$parseMoment() {
+    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
+
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 6) === peg$c15) {
+      s1 = peg$c15;
+      peg$currPos += 6;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e21); }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        s3 = peg$parseNameRef();
+        if (s3 !== peg$FAILED) {
+          s4 = peg$parse_();
+          if (input.charCodeAt(peg$currPos) === 61) {
+            s5 = peg$c10;
+            peg$currPos++;
+          } else {
+            s5 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+          }
+          if (s5 !== peg$FAILED) {
+            s6 = peg$parse_();
+            s7 = peg$parseSum();
+            if (s7 !== peg$FAILED) {
+              s8 = peg$parse__();
+              if (s8 !== peg$FAILED) {
+                if (input.substr(peg$currPos, 5) === peg$c16) {
+                  s9 = peg$c16;
+                  peg$currPos += 5;
+                } else {
+                  s9 = peg$FAILED;
+                  if (peg$silentFails === 0) { peg$fail(peg$e22); }
+                }
+                if (s9 !== peg$FAILED) {
+                  s10 = peg$parse__();
+                  if (s10 !== peg$FAILED) {
+                    s11 = peg$parseNameRef();
+                    if (s11 !== peg$FAILED) {
+                      peg$savedPos = s0;
+                      s0 = peg$f11(s3, s7, s11);
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+
+    return s0;
+  }
+
+  function peg$parseDerivative() {
+    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
+
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 10) === peg$c17) {
+      s1 = peg$c17;
+      peg$currPos += 10;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e23); }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        s3 = peg$parseNameRef();
+        if (s3 !== peg$FAILED) {
+          s4 = peg$parse_();
+          if (input.charCodeAt(peg$currPos) === 61) {
+            s5 = peg$c10;
+            peg$currPos++;
+          } else {
+            s5 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+          }
+          if (s5 !== peg$FAILED) {
+            s6 = peg$parse_();
+            s7 = peg$parseSum();
+            if (s7 !== peg$FAILED) {
+              s8 = peg$parse__();
+              if (s8 !== peg$FAILED) {
+                if (input.substr(peg$currPos, 2) === peg$c18) {
+                  s9 = peg$c18;
+                  peg$currPos += 2;
+                } else {
+                  s9 = peg$FAILED;
+                  if (peg$silentFails === 0) { peg$fail(peg$e24); }
+                }
+                if (s9 !== peg$FAILED) {
+                  s10 = peg$parse__();
+                  if (s10 !== peg$FAILED) {
+                    s11 = peg$parseNameRef();
+                    if (s11 !== peg$FAILED) {
+                      peg$savedPos = s0;
+                      s0 = peg$f12(s3, s7, s11);
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -955,12 +1277,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c14) {
-      s1 = peg$c14;
+    if (input.substr(peg$currPos, 6) === peg$c19) {
+      s1 = peg$c19;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e19); }
+      if (peg$silentFails === 0) { peg$fail(peg$e25); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -980,7 +1302,7 @@ function peg$parse(input, options) {
             s7 = peg$parseSum();
             if (s7 !== peg$FAILED) {
               peg$savedPos = s0;
-              s0 = peg$f7(s3, s7);
+              s0 = peg$f13(s3, s7);
             } else {
               peg$currPos = s0;
               s0 = peg$FAILED;
@@ -1009,12 +1331,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 3) === peg$c15) {
-      s1 = peg$c15;
+    if (input.substr(peg$currPos, 3) === peg$c20) {
+      s1 = peg$c20;
       peg$currPos += 3;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e20); }
+      if (peg$silentFails === 0) { peg$fail(peg$e26); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1034,7 +1356,7 @@ function peg$parse(input, options) {
             s7 = peg$parseSum();
             if (s7 !== peg$FAILED) {
               peg$savedPos = s0;
-              s0 = peg$f8(s3, s7);
+              s0 = peg$f14(s3, s7);
             } else {
               peg$currPos = s0;
               s0 = peg$FAILED;
@@ -1063,19 +1385,19 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 4) === peg$c16) {
-      s1 = peg$c16;
+    if (input.substr(peg$currPos, 4) === peg$c21) {
+      s1 = peg$c21;
       peg$currPos += 4;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e21); }
+      if (peg$silentFails === 0) { peg$fail(peg$e27); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       s3 = peg$parseStringLit();
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f9(s3);
+        s0 = peg$f15(s3);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1094,11 +1416,11 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 34) {
-      s1 = peg$c17;
+      s1 = peg$c22;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e23); }
+      if (peg$silentFails === 0) { peg$fail(peg$e29); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$currPos;
@@ -1108,7 +1430,7 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s4 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e24); }
+        if (peg$silentFails === 0) { peg$fail(peg$e30); }
       }
       while (s4 !== peg$FAILED) {
         s3.push(s4);
@@ -1117,20 +1439,20 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e24); }
+          if (peg$silentFails === 0) { peg$fail(peg$e30); }
         }
       }
       s2 = input.substring(s2, peg$currPos);
       if (input.charCodeAt(peg$currPos) === 34) {
-        s3 = peg$c17;
+        s3 = peg$c22;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e23); }
+        if (peg$silentFails === 0) { peg$fail(peg$e29); }
       }
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f10(s2);
+        s0 = peg$f16(s2);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1142,7 +1464,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e22); }
+      if (peg$silentFails === 0) { peg$fail(peg$e28); }
     }
 
     return s0;
@@ -1152,12 +1474,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c18) {
-      s1 = peg$c18;
+    if (input.substr(peg$currPos, 6) === peg$c23) {
+      s1 = peg$c23;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e25); }
+      if (peg$silentFails === 0) { peg$fail(peg$e31); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1177,12 +1499,12 @@ function peg$parse(input, options) {
             s7 = peg$parseMoveList();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 2) === peg$c19) {
-                s9 = peg$c19;
+              if (input.substr(peg$currPos, 2) === peg$c24) {
+                s9 = peg$c24;
                 peg$currPos += 2;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e26); }
+                if (peg$silentFails === 0) { peg$fail(peg$e32); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse__();
@@ -1190,7 +1512,7 @@ function peg$parse(input, options) {
                   s11 = peg$parseNameRef();
                   if (s11 !== peg$FAILED) {
                     peg$savedPos = s0;
-                    s0 = peg$f11(s3, s7, s11);
+                    s0 = peg$f17(s3, s7, s11);
                   } else {
                     peg$currPos = s0;
                     s0 = peg$FAILED;
@@ -1248,7 +1570,7 @@ function peg$parse(input, options) {
         s7 = peg$parseMove();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f12(s1, s7);
+          s3 = peg$f18(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -1273,7 +1595,7 @@ function peg$parse(input, options) {
           s7 = peg$parseMove();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f12(s1, s7);
+            s3 = peg$f18(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -1284,7 +1606,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f13(s1, s2);
+      s0 = peg$f19(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -1301,21 +1623,21 @@ function peg$parse(input, options) {
     s1 = peg$parseNameRef();
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
-      if (input.substr(peg$currPos, 2) === peg$c20) {
-        s3 = peg$c20;
+      if (input.substr(peg$currPos, 2) === peg$c25) {
+        s3 = peg$c25;
         peg$currPos += 2;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e28); }
+        if (peg$silentFails === 0) { peg$fail(peg$e34); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$parse_();
-        if (input.substr(peg$currPos, 8) === peg$c21) {
-          s5 = peg$c21;
+        if (input.substr(peg$currPos, 8) === peg$c26) {
+          s5 = peg$c26;
           peg$currPos += 8;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e29); }
+          if (peg$silentFails === 0) { peg$fail(peg$e35); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$currPos;
@@ -1330,7 +1652,7 @@ function peg$parse(input, options) {
           }
           if (s6 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f14(s1);
+            s0 = peg$f20(s1);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -1352,19 +1674,19 @@ function peg$parse(input, options) {
       s1 = peg$parseNameRef();
       if (s1 !== peg$FAILED) {
         s2 = peg$parse_();
-        if (input.substr(peg$currPos, 2) === peg$c20) {
-          s3 = peg$c20;
+        if (input.substr(peg$currPos, 2) === peg$c25) {
+          s3 = peg$c25;
           peg$currPos += 2;
         } else {
           s3 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e28); }
+          if (peg$silentFails === 0) { peg$fail(peg$e34); }
         }
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           s5 = peg$parseSum();
           if (s5 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f15(s1, s5);
+            s0 = peg$f21(s1, s5);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -1381,7 +1703,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e27); }
+      if (peg$silentFails === 0) { peg$fail(peg$e33); }
     }
 
     return s0;
@@ -1391,12 +1713,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11, s12;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 8) === peg$c22) {
-      s1 = peg$c22;
+    if (input.substr(peg$currPos, 8) === peg$c27) {
+      s1 = peg$c27;
       peg$currPos += 8;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e30); }
+      if (peg$silentFails === 0) { peg$fail(peg$e36); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1416,12 +1738,12 @@ function peg$parse(input, options) {
             s7 = peg$parseParamTuple();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 5) === peg$c23) {
-                s9 = peg$c23;
+              if (input.substr(peg$currPos, 5) === peg$c28) {
+                s9 = peg$c28;
                 peg$currPos += 5;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e31); }
+                if (peg$silentFails === 0) { peg$fail(peg$e37); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse__();
@@ -1433,7 +1755,7 @@ function peg$parse(input, options) {
                       s12 = null;
                     }
                     peg$savedPos = s0;
-                    s0 = peg$f16(s3, s7, s11, s12);
+                    s0 = peg$f22(s3, s7, s11, s12);
                   } else {
                     peg$currPos = s0;
                     s0 = peg$FAILED;
@@ -1496,7 +1818,7 @@ function peg$parse(input, options) {
         }
         if (s5 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f17(s3);
+          s0 = peg$f23(s3);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -1514,14 +1836,14 @@ function peg$parse(input, options) {
       s1 = peg$parseNameRef();
       if (s1 !== peg$FAILED) {
         peg$savedPos = s0;
-        s1 = peg$f18(s1);
+        s1 = peg$f24(s1);
       }
       s0 = s1;
     }
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e32); }
+      if (peg$silentFails === 0) { peg$fail(peg$e38); }
     }
 
     return s0;
@@ -1536,19 +1858,19 @@ function peg$parse(input, options) {
       s2 = [];
       s3 = peg$currPos;
       s4 = peg$parse_();
-      if (input.substr(peg$currPos, 2) === peg$c20) {
-        s5 = peg$c20;
+      if (input.substr(peg$currPos, 2) === peg$c25) {
+        s5 = peg$c25;
         peg$currPos += 2;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e28); }
+        if (peg$silentFails === 0) { peg$fail(peg$e34); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parsePathPoint();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f19(s1, s7);
+          s3 = peg$f25(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -1562,19 +1884,19 @@ function peg$parse(input, options) {
           s2.push(s3);
           s3 = peg$currPos;
           s4 = peg$parse_();
-          if (input.substr(peg$currPos, 2) === peg$c20) {
-            s5 = peg$c20;
+          if (input.substr(peg$currPos, 2) === peg$c25) {
+            s5 = peg$c25;
             peg$currPos += 2;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e28); }
+            if (peg$silentFails === 0) { peg$fail(peg$e34); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
             s7 = peg$parsePathPoint();
             if (s7 !== peg$FAILED) {
               peg$savedPos = s3;
-              s3 = peg$f19(s1, s7);
+              s3 = peg$f25(s1, s7);
             } else {
               peg$currPos = s3;
               s3 = peg$FAILED;
@@ -1589,7 +1911,7 @@ function peg$parse(input, options) {
       }
       if (s2 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f20(s1, s2);
+        s0 = peg$f26(s1, s2);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1633,7 +1955,7 @@ function peg$parse(input, options) {
           s9 = peg$parseSum();
           if (s9 !== peg$FAILED) {
             peg$savedPos = s5;
-            s5 = peg$f21(s3, s9);
+            s5 = peg$f27(s3, s9);
           } else {
             peg$currPos = s5;
             s5 = peg$FAILED;
@@ -1659,7 +1981,7 @@ function peg$parse(input, options) {
               s9 = peg$parseSum();
               if (s9 !== peg$FAILED) {
                 peg$savedPos = s5;
-                s5 = peg$f21(s3, s9);
+                s5 = peg$f27(s3, s9);
               } else {
                 peg$currPos = s5;
                 s5 = peg$FAILED;
@@ -1683,7 +2005,7 @@ function peg$parse(input, options) {
           }
           if (s6 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f22(s3, s4);
+            s0 = peg$f28(s3, s4);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -1705,14 +2027,14 @@ function peg$parse(input, options) {
       s1 = peg$parseSum();
       if (s1 !== peg$FAILED) {
         peg$savedPos = s0;
-        s1 = peg$f23(s1);
+        s1 = peg$f29(s1);
       }
       s0 = s1;
     }
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e33); }
+      if (peg$silentFails === 0) { peg$fail(peg$e39); }
     }
 
     return s0;
@@ -1724,12 +2046,12 @@ function peg$parse(input, options) {
     s0 = peg$currPos;
     s1 = peg$parse__();
     if (s1 !== peg$FAILED) {
-      if (input.substr(peg$currPos, 2) === peg$c24) {
-        s2 = peg$c24;
+      if (input.substr(peg$currPos, 2) === peg$c29) {
+        s2 = peg$c29;
         peg$currPos += 2;
       } else {
         s2 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e34); }
+        if (peg$silentFails === 0) { peg$fail(peg$e40); }
       }
       if (s2 !== peg$FAILED) {
         s3 = peg$parse__();
@@ -1737,7 +2059,7 @@ function peg$parse(input, options) {
           s4 = peg$parseBindingList();
           if (s4 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f24(s4);
+            s0 = peg$f30(s4);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -1779,7 +2101,7 @@ function peg$parse(input, options) {
         s7 = peg$parseBinding();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f25(s1, s7);
+          s3 = peg$f31(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -1804,7 +2126,7 @@ function peg$parse(input, options) {
           s7 = peg$parseBinding();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f25(s1, s7);
+            s3 = peg$f31(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -1815,7 +2137,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f26(s1, s2);
+      s0 = peg$f32(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -1844,7 +2166,7 @@ function peg$parse(input, options) {
         s5 = peg$parseSum();
         if (s5 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f27(s1, s5);
+          s0 = peg$f33(s1, s5);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -1860,7 +2182,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e35); }
+      if (peg$silentFails === 0) { peg$fail(peg$e41); }
     }
 
     return s0;
@@ -1870,12 +2192,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 7) === peg$c25) {
-      s1 = peg$c25;
+    if (input.substr(peg$currPos, 7) === peg$c30) {
+      s1 = peg$c30;
       peg$currPos += 7;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e36); }
+      if (peg$silentFails === 0) { peg$fail(peg$e42); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1884,12 +2206,12 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse__();
           if (s4 !== peg$FAILED) {
-            if (input.substr(peg$currPos, 4) === peg$c26) {
-              s5 = peg$c26;
+            if (input.substr(peg$currPos, 4) === peg$c31) {
+              s5 = peg$c31;
               peg$currPos += 4;
             } else {
               s5 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e37); }
+              if (peg$silentFails === 0) { peg$fail(peg$e43); }
             }
             if (s5 !== peg$FAILED) {
               s6 = peg$parse__();
@@ -1897,7 +2219,7 @@ function peg$parse(input, options) {
                 s7 = peg$parseNameRef();
                 if (s7 !== peg$FAILED) {
                   peg$savedPos = s0;
-                  s0 = peg$f28(s3, s7);
+                  s0 = peg$f34(s3, s7);
                 } else {
                   peg$currPos = s0;
                   s0 = peg$FAILED;
@@ -1934,12 +2256,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c27) {
-      s1 = peg$c27;
+    if (input.substr(peg$currPos, 6) === peg$c32) {
+      s1 = peg$c32;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e38); }
+      if (peg$silentFails === 0) { peg$fail(peg$e44); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1955,7 +2277,7 @@ function peg$parse(input, options) {
             s5 = null;
           }
           peg$savedPos = s0;
-          s0 = peg$f29(s3, s4, s5);
+          s0 = peg$f35(s3, s4, s5);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -1978,22 +2300,22 @@ function peg$parse(input, options) {
     s0 = peg$currPos;
     s1 = peg$parse__();
     if (s1 !== peg$FAILED) {
-      if (input.substr(peg$currPos, 4) === peg$c26) {
-        s2 = peg$c26;
+      if (input.substr(peg$currPos, 4) === peg$c31) {
+        s2 = peg$c31;
         peg$currPos += 4;
       } else {
         s2 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e37); }
+        if (peg$silentFails === 0) { peg$fail(peg$e43); }
       }
       if (s2 !== peg$FAILED) {
         s3 = peg$parse__();
         if (s3 !== peg$FAILED) {
-          if (input.substr(peg$currPos, 9) === peg$c28) {
-            s4 = peg$c28;
+          if (input.substr(peg$currPos, 9) === peg$c33) {
+            s4 = peg$c33;
             peg$currPos += 9;
           } else {
             s4 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e39); }
+            if (peg$silentFails === 0) { peg$fail(peg$e45); }
           }
           if (s4 !== peg$FAILED) {
             s5 = peg$parse__();
@@ -2004,7 +2326,7 @@ function peg$parse(input, options) {
               }
               if (s6 !== peg$FAILED) {
                 peg$savedPos = s0;
-                s0 = peg$f30(s6);
+                s0 = peg$f36(s6);
               } else {
                 peg$currPos = s0;
                 s0 = peg$FAILED;
@@ -2046,7 +2368,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s4 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e41); }
+      if (peg$silentFails === 0) { peg$fail(peg$e47); }
     }
     if (s4 !== peg$FAILED) {
       while (s4 !== peg$FAILED) {
@@ -2056,7 +2378,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e41); }
+          if (peg$silentFails === 0) { peg$fail(peg$e47); }
         }
       }
     } else {
@@ -2065,11 +2387,11 @@ function peg$parse(input, options) {
     if (s3 !== peg$FAILED) {
       s4 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s5 = peg$c29;
+        s5 = peg$c34;
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e42); }
+        if (peg$silentFails === 0) { peg$fail(peg$e48); }
       }
       if (s5 !== peg$FAILED) {
         s6 = [];
@@ -2078,7 +2400,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s7 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e41); }
+          if (peg$silentFails === 0) { peg$fail(peg$e47); }
         }
         if (s7 !== peg$FAILED) {
           while (s7 !== peg$FAILED) {
@@ -2088,7 +2410,7 @@ function peg$parse(input, options) {
               peg$currPos++;
             } else {
               s7 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e41); }
+              if (peg$silentFails === 0) { peg$fail(peg$e47); }
             }
           }
         } else {
@@ -2113,15 +2435,15 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e43); }
+        if (peg$silentFails === 0) { peg$fail(peg$e49); }
       }
       if (s5 !== peg$FAILED) {
         if (input.charCodeAt(peg$currPos) === 45) {
-          s6 = peg$c30;
+          s6 = peg$c35;
           peg$currPos++;
         } else {
           s6 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e44); }
+          if (peg$silentFails === 0) { peg$fail(peg$e50); }
         }
         if (s6 === peg$FAILED) {
           s6 = null;
@@ -2132,7 +2454,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s8 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e41); }
+          if (peg$silentFails === 0) { peg$fail(peg$e47); }
         }
         if (s8 !== peg$FAILED) {
           while (s8 !== peg$FAILED) {
@@ -2142,7 +2464,7 @@ function peg$parse(input, options) {
               peg$currPos++;
             } else {
               s8 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e41); }
+              if (peg$silentFails === 0) { peg$fail(peg$e47); }
             }
           }
         } else {
@@ -2170,13 +2492,13 @@ function peg$parse(input, options) {
     }
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f31(s1);
+      s1 = peg$f37(s1);
     }
     s0 = s1;
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e40); }
+      if (peg$silentFails === 0) { peg$fail(peg$e46); }
     }
 
     return s0;
@@ -2186,12 +2508,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 5) === peg$c31) {
-      s1 = peg$c31;
+    if (input.substr(peg$currPos, 5) === peg$c36) {
+      s1 = peg$c36;
       peg$currPos += 5;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e45); }
+      if (peg$silentFails === 0) { peg$fail(peg$e51); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -2211,19 +2533,19 @@ function peg$parse(input, options) {
             s7 = peg$parseNameRef();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 2) === peg$c20) {
-                s9 = peg$c20;
+              if (input.substr(peg$currPos, 2) === peg$c25) {
+                s9 = peg$c25;
                 peg$currPos += 2;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e28); }
+                if (peg$silentFails === 0) { peg$fail(peg$e34); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse_();
                 s11 = peg$parseLimitPoint();
                 if (s11 !== peg$FAILED) {
                   peg$savedPos = s0;
-                  s0 = peg$f32(s3, s7, s11);
+                  s0 = peg$f38(s3, s7, s11);
                 } else {
                   peg$currPos = s0;
                   s0 = peg$FAILED;
@@ -2262,20 +2584,20 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 45) {
-      s1 = peg$c30;
+      s1 = peg$c35;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e44); }
+      if (peg$silentFails === 0) { peg$fail(peg$e50); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
-      if (input.substr(peg$currPos, 3) === peg$c32) {
-        s3 = peg$c32;
+      if (input.substr(peg$currPos, 3) === peg$c37) {
+        s3 = peg$c37;
         peg$currPos += 3;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e47); }
+        if (peg$silentFails === 0) { peg$fail(peg$e53); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$currPos;
@@ -2290,7 +2612,7 @@ function peg$parse(input, options) {
         }
         if (s4 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f33();
+          s0 = peg$f39();
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2305,12 +2627,12 @@ function peg$parse(input, options) {
     }
     if (s0 === peg$FAILED) {
       s0 = peg$currPos;
-      if (input.substr(peg$currPos, 3) === peg$c32) {
-        s1 = peg$c32;
+      if (input.substr(peg$currPos, 3) === peg$c37) {
+        s1 = peg$c37;
         peg$currPos += 3;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e47); }
+        if (peg$silentFails === 0) { peg$fail(peg$e53); }
       }
       if (s1 !== peg$FAILED) {
         s2 = peg$currPos;
@@ -2325,7 +2647,7 @@ function peg$parse(input, options) {
         }
         if (s2 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f34();
+          s0 = peg$f40();
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2341,7 +2663,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e46); }
+      if (peg$silentFails === 0) { peg$fail(peg$e52); }
     }
 
     return s0;
@@ -2369,14 +2691,14 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e48); }
+        if (peg$silentFails === 0) { peg$fail(peg$e54); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parseProduct();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f35(s1, s5, s7);
+          s3 = peg$f41(s1, s5, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2394,14 +2716,14 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e48); }
+          if (peg$silentFails === 0) { peg$fail(peg$e54); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$parse_();
           s7 = peg$parseProduct();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f35(s1, s5, s7);
+            s3 = peg$f41(s1, s5, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -2412,7 +2734,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f36(s1, s2);
+      s0 = peg$f42(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2435,14 +2757,14 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e49); }
+        if (peg$silentFails === 0) { peg$fail(peg$e55); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parseUnary();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f37(s1, s5, s7);
+          s3 = peg$f43(s1, s5, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2460,14 +2782,14 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e49); }
+          if (peg$silentFails === 0) { peg$fail(peg$e55); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$parse_();
           s7 = peg$parseUnary();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f37(s1, s5, s7);
+            s3 = peg$f43(s1, s5, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -2478,7 +2800,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f38(s1, s2);
+      s0 = peg$f44(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2492,18 +2814,18 @@ function peg$parse(input, options) {
 
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 45) {
-      s1 = peg$c30;
+      s1 = peg$c35;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e44); }
+      if (peg$silentFails === 0) { peg$fail(peg$e50); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       s3 = peg$parseUnary();
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f39(s3);
+        s0 = peg$f45(s3);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -2515,18 +2837,18 @@ function peg$parse(input, options) {
     if (s0 === peg$FAILED) {
       s0 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 43) {
-        s1 = peg$c33;
+        s1 = peg$c38;
         peg$currPos++;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e50); }
+        if (peg$silentFails === 0) { peg$fail(peg$e56); }
       }
       if (s1 !== peg$FAILED) {
         s2 = peg$parse_();
         s3 = peg$parseUnary();
         if (s3 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f40(s3);
+          s0 = peg$f46(s3);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2552,18 +2874,18 @@ function peg$parse(input, options) {
       s2 = peg$currPos;
       s3 = peg$parse_();
       if (input.charCodeAt(peg$currPos) === 94) {
-        s4 = peg$c34;
+        s4 = peg$c39;
         peg$currPos++;
       } else {
         s4 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e51); }
+        if (peg$silentFails === 0) { peg$fail(peg$e57); }
       }
       if (s4 !== peg$FAILED) {
         s5 = peg$parse_();
         s6 = peg$parseUnary();
         if (s6 !== peg$FAILED) {
           peg$savedPos = s2;
-          s2 = peg$f41(s1, s6);
+          s2 = peg$f47(s1, s6);
         } else {
           peg$currPos = s2;
           s2 = peg$FAILED;
@@ -2576,7 +2898,7 @@ function peg$parse(input, options) {
         s2 = null;
       }
       peg$savedPos = s0;
-      s0 = peg$f42(s1, s2);
+      s0 = peg$f48(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2616,7 +2938,7 @@ function peg$parse(input, options) {
               }
               if (s5 !== peg$FAILED) {
                 peg$savedPos = s0;
-                s0 = peg$f43(s3);
+                s0 = peg$f49(s3);
               } else {
                 peg$currPos = s0;
                 s0 = peg$FAILED;
@@ -2664,7 +2986,7 @@ function peg$parse(input, options) {
           }
           if (s7 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f44(s1, s5);
+            s0 = peg$f50(s1, s5);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -2706,7 +3028,7 @@ function peg$parse(input, options) {
         s7 = peg$parseSum();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f45(s1, s7);
+          s3 = peg$f51(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2731,7 +3053,7 @@ function peg$parse(input, options) {
           s7 = peg$parseSum();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f45(s1, s7);
+            s3 = peg$f51(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -2742,7 +3064,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f46(s1, s2);
+      s0 = peg$f52(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2784,7 +3106,7 @@ function peg$parse(input, options) {
       }
       if (s2 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f47(s1);
+        s0 = peg$f53(s1);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -2810,7 +3132,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s4 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e41); }
+      if (peg$silentFails === 0) { peg$fail(peg$e47); }
     }
     if (s4 !== peg$FAILED) {
       while (s4 !== peg$FAILED) {
@@ -2820,7 +3142,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e41); }
+          if (peg$silentFails === 0) { peg$fail(peg$e47); }
         }
       }
     } else {
@@ -2829,11 +3151,11 @@ function peg$parse(input, options) {
     if (s3 !== peg$FAILED) {
       s4 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s5 = peg$c29;
+        s5 = peg$c34;
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e42); }
+        if (peg$silentFails === 0) { peg$fail(peg$e48); }
       }
       if (s5 !== peg$FAILED) {
         s6 = [];
@@ -2842,7 +3164,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s7 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e41); }
+          if (peg$silentFails === 0) { peg$fail(peg$e47); }
         }
         if (s7 !== peg$FAILED) {
           while (s7 !== peg$FAILED) {
@@ -2852,7 +3174,7 @@ function peg$parse(input, options) {
               peg$currPos++;
             } else {
               s7 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e41); }
+              if (peg$silentFails === 0) { peg$fail(peg$e47); }
             }
           }
         } else {
@@ -2881,11 +3203,11 @@ function peg$parse(input, options) {
     if (s2 === peg$FAILED) {
       s2 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s3 = peg$c29;
+        s3 = peg$c34;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e42); }
+        if (peg$silentFails === 0) { peg$fail(peg$e48); }
       }
       if (s3 !== peg$FAILED) {
         s4 = [];
@@ -2894,7 +3216,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e41); }
+          if (peg$silentFails === 0) { peg$fail(peg$e47); }
         }
         if (s5 !== peg$FAILED) {
           while (s5 !== peg$FAILED) {
@@ -2904,7 +3226,7 @@ function peg$parse(input, options) {
               peg$currPos++;
             } else {
               s5 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e41); }
+              if (peg$silentFails === 0) { peg$fail(peg$e47); }
             }
           }
         } else {
@@ -2929,13 +3251,13 @@ function peg$parse(input, options) {
     }
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f48(s1);
+      s1 = peg$f54(s1);
     }
     s0 = s1;
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e40); }
+      if (peg$silentFails === 0) { peg$fail(peg$e46); }
     }
 
     return s0;
@@ -2948,7 +3270,7 @@ function peg$parse(input, options) {
     s1 = peg$parseIdentifier();
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f49(s1);
+      s1 = peg$f55(s1);
     }
     s0 = s1;
 
@@ -2966,7 +3288,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s2 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e53); }
+      if (peg$silentFails === 0) { peg$fail(peg$e59); }
     }
     if (s2 !== peg$FAILED) {
       s3 = [];
@@ -2989,7 +3311,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e52); }
+      if (peg$silentFails === 0) { peg$fail(peg$e58); }
     }
 
     return s0;
@@ -3003,7 +3325,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s0 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e54); }
+      if (peg$silentFails === 0) { peg$fail(peg$e60); }
     }
 
     return s0;
@@ -3019,7 +3341,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e56); }
+      if (peg$silentFails === 0) { peg$fail(peg$e62); }
     }
     if (s1 !== peg$FAILED) {
       while (s1 !== peg$FAILED) {
@@ -3029,7 +3351,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s1 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e56); }
+          if (peg$silentFails === 0) { peg$fail(peg$e62); }
         }
       }
     } else {
@@ -3038,7 +3360,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e55); }
+      if (peg$silentFails === 0) { peg$fail(peg$e61); }
     }
 
     return s0;
@@ -3053,7 +3375,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e56); }
+      if (peg$silentFails === 0) { peg$fail(peg$e62); }
     }
     while (s1 !== peg$FAILED) {
       s0.push(s1);
@@ -3062,7 +3384,7 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e56); }
+        if (peg$silentFails === 0) { peg$fail(peg$e62); }
       }
     }
 

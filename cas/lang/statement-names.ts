@@ -62,5 +62,10 @@ export function statementNames(s: Statement): StatementNames {
       return { defined: [], used: uniq([s.target.name, s.param.name, ...(s.to === 'inf' || s.to === '-inf' ? [] : namesIn([s.to]))]), variables: [] };
     case 'note':
       return { defined: [], used: [], variables: [] };
+    case 'moment':
+      // the polynomial's names are the target's integration variables (checked at evaluation)
+      return { defined: [s.name.name], used: [s.target.name], variables: [] };
+    case 'derivative':
+      return { defined: [s.name.name], used: uniq([s.param.name, ...namesIn([s.expr])]), variables: [] };
   }
 }

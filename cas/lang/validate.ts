@@ -83,6 +83,8 @@ export function checkStatementNames(s: Statement): ParseError | null {
       return s.tolerance ? checkExprNames(s.tolerance) : null;
     }
     case 'limit': return s.to === 'inf' || s.to === '-inf' ? null : checkExprNames(s.to);
+    case 'moment': return checkName(s.name) ?? checkExprNames(s.expr);
+    case 'derivative': return checkName(s.name) ?? checkExprNames(s.expr);
     default: return null;
   }
 }

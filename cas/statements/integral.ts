@@ -23,6 +23,8 @@ import { closedForm } from '../gaussian/closedForm.js';
 import { complexText, fmt, matrixLatex, matrixText, piMultiple, polar, quarterPhaseText, vectorLatex, vectorText } from '../gaussian/describe.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { integralDiagram } from './shared.js';
+import { evaluateBerezin } from './berezin.js';
+import { realPartsOf } from './complexVariables.js';
 import { complexApprox, complexApproxLatex, pointText } from '../../shared/record/numbers.js';
 
 type IntegralStatement = Extract<Statement, { kind: 'integral' }>;
@@ -108,7 +110,21 @@ function simplifyDisplay(form: QuadraticForm, points: readonly Point[]): Quadrat
   return { vars: form.vars, A: form.A.map((r) => r.map(s)), J: form.J.map(s), c: s(form.c) };
 }
 
+/** Dispatch on the kinds of variables: Grassmann (Berezin), complex (as real pairs), or real. */
 export function evaluateIntegral(s: IntegralStatement, ctx: Context): StatementReport {
+  const kinds = s.kinds ?? [];
+  if (kinds.includes('grassmann')) return evaluateBerezin(s, ctx, (b) => evaluateIntegral(b, ctx));
+  if (kinds.includes('complex')) {
+    const taken = (n: string) => ctx.params.has(n) || ctx.results.has(n) || s.vars.some((v) => v.name === n);
+    const { statement, pairs } = realPartsOf(s, taken);
+    const report = evaluateRealIntegral(statement, ctx);
+    report.steps.unshift({ kind: 'variables', complex: pairs, grassmann: [] });
+    return report;
+  }
+  return evaluateRealIntegral(s, ctx);
+}
+
+function evaluateRealIntegral(s: IntegralStatement, ctx: Context): StatementReport {
   const line = s.span.start.line;
   const name = s.name.name;
   const report = blankReport(line, 'integral', name);

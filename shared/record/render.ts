@@ -326,6 +326,38 @@ function derived(s: StepOf<'derived'>): RenderedStep {
   };
 }
 
+function moment(s: StepOf<'moment'>): RenderedStep {
+  const mean = s.mean.every((m) => m.text === '0') ? 'zero mean' : `mean A^-1 J = (${s.mean.map((m) => m.text).join(', ')})`;
+  const where = s.convergence === 'absolute' ? '' : s.convergence === 'oscillatory' ? ' (the weight is oscillatory: the average is defined by the same i*epsilon limit as the integral)' : ` (the weight's convergence is ${s.convergence}: the average holds where it converges)`;
+  return {
+    text: `<${s.polynomial.text}> under ${s.under} = ${s.result.text}, by Wick (Isserlis) contractions with covariance A^-1 = ${matrixText(s.covariance)} and ${mean}: ${plural(s.pairings, 'pairing')} after shifting by the mean; exact in rational arithmetic${where}.`,
+    latex: `\\langle ${s.polynomial.latex} \\rangle_{${s.under}} = ${s.result.latex}`,
+  };
+}
+
+function derivative(s: StepOf<'derivative'>): RenderedStep {
+  const logs = s.logDerivatives.length ? `, with ${s.logDerivatives.map((l) => `d log ${l.name}/d${s.param} = ${l.formula.text}`).join('; ')}` : '';
+  return {
+    text: `${s.name} = d/d${s.param} (${s.of.text}) = ${s.result.text}, exactly by the chain rule${logs}; checked against central differences at ${plural(s.checks.count, 'point')} (largest relative difference ${approx(s.checks.worst, 3)}).`,
+    latex: `${s.name} = \\frac{\\partial}{\\partial ${s.param}} \\left(${s.of.latex}\\right) = ${s.result.latex}`,
+  };
+}
+
+function variables(s: StepOf<'variables'>): RenderedStep {
+  const parts: string[] = [];
+  if (s.complex.length) parts.push(`${list(s.complex.map((z) => z.name))} ${s.complex.length > 1 ? 'are complex variables' : 'is a complex variable'}, written ${s.complex.map((z) => `${z.name} = ${z.re} + i*${z.im}`).join(', ')} with the measure d^2z = dx dy for each (as forms dz^dzbar = -2i dx^dy, so a convention with dz dzbar multiplies the result by (-2i)^${s.complex.length}, and one with d^2z = 2 dx dy by 2^${s.complex.length})`);
+  if (s.grassmann.length) parts.push(`${list(s.grassmann)} ${s.grassmann.length > 1 ? 'are Grassmann variables' : 'is a Grassmann variable'}, integrated by the Berezin rule (integral of theta dtheta = 1) in the order written: the leftmost outermost, d${s.grassmann[0]} ... d${s.grassmann[s.grassmann.length - 1]}`);
+  return { text: `${parts.join('; ')}.`, latex: tex('measure convention') };
+}
+
+function berezin(s: StepOf<'berezin'>): RenderedStep {
+  const c = s.constant ? ` times exp(${s.constant.text})` : '';
+  return {
+    text: `The exponent is -1/2 theta^T A theta${s.constant ? ' + c' : ''} in theta = (${s.vars.join(', ')}), with A = ${matrixText(s.A)} antisymmetric; the Berezin integral in the order written is Pf(A)${c} = ${s.pfaffian.text}, exactly (no convergence question arises).`,
+    latex: `\\int \\prod d\\theta\\, e^{-\\frac12 \\theta^T A \\theta} = \\operatorname{Pf}(A) = ${s.pfaffian.latex}`,
+  };
+}
+
 function limit(s: StepOf<'limit'>): RenderedStep {
   const to = s.to.text;
   const arrow = `${s.param} -> ${to}`;
@@ -398,5 +430,9 @@ export function renderStep(step: Step): RenderedStep {
     case 'comparison-verdict': return comparisonVerdict(step);
     case 'derived': return derived(step);
     case 'limit': return limit(step);
+    case 'moment': return moment(step);
+    case 'derivative': return derivative(step);
+    case 'variables': return variables(step);
+    case 'berezin': return berezin(step);
   }
 }

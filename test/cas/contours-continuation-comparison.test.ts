@@ -282,7 +282,7 @@ test('a rotation that is illegal at once is reported at t = 0+, not at a small t
   assert.match(renderStep(bad).text, /t = 0\+/);
   // independent: the smallest eigenvalue of Re(e^(2 i t theta) A) just after the start, both directions
   const reRot = (theta: number, t: number) => {
-    const ph = math.complex({ abs: 1, arg: 2 * t * theta });
+    const ph = math.complex(Math.cos(2 * t * theta), Math.sin(2 * t * theta));
     const A = [[math.complex(1, 0), math.complex(1, 1)], [math.complex(1, 1), math.complex(1, 0)]];
     return A.map((row) => row.map((z) => (math.multiply(z, ph) as math.Complex).re));
   };

@@ -19,7 +19,7 @@ const CASES: { src: string; line: number; column: number; says: RegExp }[] = [
   { src: 'integral = exp(-x^2) d(x)', line: 1, column: 10, says: /Expected a name, but found "="/ },
   { src: 'integrl Z = exp(-x^2) d(x)', line: 1, column: 1, says: /A statement starts with one of param, integral/ },
   { src: 'integral Q = exp(-2x^2) d(x)', line: 1, column: 20, says: /Write a product with "\*"/ },
-  { src: 'integral Q = exp(-x^2) d(x y)', line: 1, column: 28, says: /Expected a comma or a closing parenthesis/ },
+  { src: 'integral Q = exp(-x^2) d(x y)', line: 1, column: 28, says: /Expected a comma, ":" or a closing parenthesis/ },
   { src: 'integral Q = exp(-x^2)', line: 1, column: 23, says: /integration variables, written d\(x, y, \.\.\.\)/ },
   { src: 'integral Q = gamma(x) d(x)', line: 1, column: 14, says: /"gamma" is not a known function/ },
   { src: '\n\nexpect Z = ', line: 3, column: 12, says: /Expected an expression, but found the end of the line/ },

@@ -79,4 +79,20 @@ compare F with FE
 verify FE at w = 3
 `,
   },
+  {
+    title: 'Correlators of a driven mode and a fermion pair',
+    source: `# A mode of stiffness m driven by a source J: its moments by Wick contractions, the
+# connected two-point function from log W, and the same mode beside a fermion pair
+# (pb, p) with mass mu, whose Berezin integral gives the determinant.
+param m, mu : positive
+param J : real
+integral W = exp(-m*x^2/2 + J*x) d(x)
+moment X4 = x^4 under W
+derivative G1 = log(W) by J
+derivative G2 = G1 by J
+integral F = exp(-mu*pb*p) d(pb, p : grassmann)
+integral S = exp(-m*x^2/2 - mu*pb*p) d(x) d(pb, p : grassmann)
+limit S : m -> inf
+`,
+  },
 ];

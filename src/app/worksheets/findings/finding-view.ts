@@ -22,6 +22,8 @@ const KIND_WORDS: Record<StatementReport['kind'], string> = {
   verify: 'Numeric check',
   let: 'Definition',
   limit: 'Limit',
+  moment: 'Moment',
+  derivative: 'Derivative',
   invalid: 'Not understood',
 };
 
