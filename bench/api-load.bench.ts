@@ -18,7 +18,7 @@ integral N3 = exp(-((1/3 + i)*x^2 + (1/3 + i)*y^2 + (1/3 + i)*z^2)/2) d(x, y, z)
 const db = await createTestDatabase('bench');
 const port = 30000 + Math.floor(Math.random() * 10000);
 const server = spawn('node_modules/.bin/tsx', ['server/main.ts'], {
-  env: { ...process.env, DATABASE_URL: db.url, PORT: String(port), SHEETWISE_SEED_DEMO: '1', LOG_LEVEL: 'silent', LOGIN_RATE_LIMIT: '1000' },
+  env: { ...process.env, DATABASE_URL: db.url, PORT: String(port), SHEETWISE_SEED_DEMO: '1', LOG_LEVEL: 'silent', LOGIN_RATE_LIMIT: '1000', EVALUATION_CAP_PER_USER: '20' },
   stdio: ['ignore', 'ignore', 'inherit', 'ipc'],
 });
 await new Promise<void>((resolve, reject) => {

@@ -34,7 +34,9 @@ function bench(title, cmd, args) {
 try {
   bench('computation core: ms per statement kind', tsx, ['bench/cas.bench.ts']);
   bench('numeric scale: closed form with the branch rule', tsx, ['bench/numeric-scale.bench.ts']);
+  bench('parser: depth and size; the server-side limits check', tsx, ['bench/parser.bench.ts']);
   bench('API under load (autocannon, 127.0.0.1)', tsx, ['bench/api-load.bench.ts']);
+  bench('fair evaluation: a small evaluation while others flood or abandon', tsx, ['bench/fairness.bench.ts']);
   log('Building the client for its sizes…');
   run(join(projectDir, 'node_modules/.bin/ng'), ['build', '--configuration', 'production'], { cwd: projectDir, quiet: true });
   bench('client bundle sizes', 'node', ['bench/client-size.mjs']);

@@ -6,7 +6,7 @@ import { spawn } from 'node:child_process';
 import { existsSync, readdirSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { ensureChromium, ensureDependencies, ensurePythonMpmath, log } from './lib/shell.mjs';
+import { ensureChromium, ensureDependencies, ensurePythonMpmath, ensureTex, log } from './lib/shell.mjs';
 
 const projectDir = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const pgPort = Number(process.env.SHEETWISE_TEST_PG_PORT ?? 54339);
@@ -15,6 +15,7 @@ const only = process.argv.slice(2); // e.g. `npm test -- api e2e` runs just thos
 ensureDependencies(projectDir);
 const python = ensurePythonMpmath();
 const chromium = ensureChromium();
+ensureTex();
 const { startCluster } = await import('./lib/postgres.mjs');
 const cluster = startCluster({ projectDir, name: 'postgres-test', port: pgPort });
 log(`Test PostgreSQL on 127.0.0.1:${pgPort}, data in ${cluster.dataDir}`);

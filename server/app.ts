@@ -8,6 +8,8 @@ import helmet from 'helmet';
 import pg from 'pg';
 import { pinoHttp } from 'pino-http';
 import { configurePassport } from './auth/passport.js';
+import { SignInService } from './auth/sign-in.js';
+import { LIMITS } from '../shared/api.js';
 import type { ServerConfig } from './config.js';
 import type { EvaluationPool } from './evaluation/pool.js';
 import type { Logger } from './logger.js';
@@ -68,14 +70,21 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   );
 
   const PgStore = connectPgSimple(session);
-  const passport = configurePassport(mailer, () => config.publicUrl);
+  const passport = configurePassport();
+  // Sign-in back-off in the database: per account and client address, per client address, per account.
+  const signIn = new SignInService(mailer, () => config.publicUrl, {
+    pairFree: config.loginRateLimit,
+    addressFree: 2 * config.loginRateLimit,
+    accountFree: LIMITS.failedSignInsBeforeLock,
+  });
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
   api.use(cookieParser());
   api.use(
     session({
       name: 'sheetwise.sid',
-      // No write per request: a session lasts 14 days from sign-in.
+      // No write per request: a session lasts 14 days from sign-in. Nothing is stored for
+      // signed-out visitors (their XSRF token is a signed cookie, see middleware/csrf.ts).
       store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, disableTouch: true }),
       secret: config.sessionSecret,
       resave: false,
@@ -85,26 +94,26 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
     }),
   );
   api.use(passport.session());
-  api.use(csrfProtection(config.secureCookies));
+  api.use(csrfProtection(config.sessionSecret, config.secureCookies));
 
   api.get('/health', (_req, res) => {
     res.json({ ok: true });
   });
-  api.use('/auth/password-reset', passwordResetRoutes(config, mailer));
-  api.use('/invitations', invitationRoutes());
+  api.use('/auth/password-reset', passwordResetRoutes(config, mailer, logger));
+  api.use('/invitations', invitationRoutes(signIn));
   // Referee links: the public view needs no account; managing links does.
   api.use(refereeRoutes(config, evaluationPool));
   api.use('/groups/:groupId/activity', requireUser, activityRoutes());
   api.use('/groups/:groupId/invitations', requireUser, groupInvitationRoutes(config, mailer));
-  api.use('/auth', authRoutes({ loginRateLimit: config.loginRateLimit }));
-  api.use('/groups/:groupId/members', requireUser, memberRoutes());
+  api.use('/auth', authRoutes({ loginRateLimit: config.loginRateLimit, signIn }));
+  api.use('/groups/:groupId/members', requireUser, memberRoutes(config, mailer));
   api.use('/groups/:groupId/worksheets', requireUser, groupWorksheetRoutes());
   api.use('/groups', requireUser, groupRoutes());
   api.use('/worksheets', requireUser, worksheetRoutes(evaluationPool));
   api.use('/evaluate', requireUser, evaluateRoutes(evaluationPool));
   api.use(requireUser, reportRoutes(evaluationPool));
   api.use(requireUser, reviewRoutes(config, mailer));
-  api.use(requireUser, fileRoutes(evaluationPool));
+  api.use(requireUser, fileRoutes(evaluationPool, config));
   api.use(requireUser, exportRoutes(evaluationPool));
   api.use('/admin', requireAdmin, adminRoutes(evaluationPool));
   api.use(unknownApiRoute);

@@ -16,11 +16,16 @@ export interface ServerConfig {
   /** `secure` cookies only behind HTTPS. */
   secureCookies: boolean;
   logLevel: string;
-  /** Sign-in attempts per address and IP in the rate-limit window. */
+  /** Free failed sign-ins per account and client address before the back-off starts (twice that per client address across accounts; see auth/throttle.ts). */
   loginRateLimit: number;
   /** The address people reach the product at; links in mail point there. */
   publicUrl: string;
+  /** Room for attached files per group, in bytes (ATTACHMENT_QUOTA_MB, default 200). */
+  attachmentQuotaBytes: number;
 }
+
+/** ATTACHMENT_QUOTA_MB as bytes: the attached files of one group together stay within it. */
+export const attachmentQuotaBytes = (env: NodeJS.ProcessEnv = process.env) => Math.round(Number(env['ATTACHMENT_QUOTA_MB'] ?? 200) * 1024 * 1024);
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
   const databaseUrl = env['DATABASE_URL'];
@@ -39,5 +44,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     logLevel: env['LOG_LEVEL'] ?? 'info',
     loginRateLimit: Number(env['LOGIN_RATE_LIMIT'] ?? 20),
     publicUrl: (env['PUBLIC_URL'] ?? `http://127.0.0.1:${env['PORT'] ?? 4300}`).replace(/\/$/, ''),
+    attachmentQuotaBytes: attachmentQuotaBytes(env),
   };
 }

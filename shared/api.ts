@@ -17,7 +17,7 @@ export type GroupRole = (typeof GROUP_ROLES)[number];
 export const LIMITS = {
   emailLength: 254,
   displayNameLength: 80,
-  passwordMin: 10,
+  passwordMin: 12,
   passwordMax: 200,
   groupNameLength: 120,
   worksheetTitleLength: 200,

@@ -62,3 +62,18 @@ export function ensurePythonMpmath() {
   if (has('/usr/bin/python3')) return '/usr/bin/python3';
   throw new Error('python3-mpmath was installed but /usr/bin/python3 cannot import mpmath.');
 }
+
+/** pdflatex and pdftotext from Debian (texlive-latex-base, poppler-utils) for the export tests; installed when missing (root only). */
+export function ensureTex() {
+  const has = (cmd) => spawnSync('sh', ['-c', `command -v ${cmd}`], { stdio: 'ignore' }).status === 0;
+  if (has('pdflatex') && has('pdftotext')) return;
+  if (process.getuid?.() !== 0) {
+    throw new Error('pdflatex or pdftotext is missing. Run: sudo apt-get install -y texlive-latex-base poppler-utils');
+  }
+  log('Installing TeX from Debian packages (texlive-latex-base, poppler-utils)…');
+  run('apt-get', ['update'], { quiet: true });
+  run('apt-get', ['install', '-y', '--no-install-recommends', 'texlive-latex-base', 'poppler-utils'], {
+    quiet: true,
+    env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
+  });
+}

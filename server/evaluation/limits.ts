@@ -1,7 +1,6 @@
 import { LIMITS } from '../../shared/api.js';
-import { statementNames } from '../../cas/index.js';
+import { statementNames, type ParsedWorksheet } from '../../cas/index.js';
 import { HttpError } from '../middleware/http-error.js';
-import { parseSource } from './parse-source.js';
 import { measureLine, sourceLines } from './source-lines.js';
 
 const kB = (bytes: number) => `${Math.ceil(bytes / 1024)} kB`;
@@ -16,18 +15,17 @@ export function checkWorksheetSize(source: string): void {
 
 const refuse = (code: string, message: string) => new HttpError(422, code, message);
 
-/** What the checks learnt that the evaluation needs: the statement count for progress. */
+/** What the server's own checks learnt: the number of lines (the statement count comes from the worker's parse). */
 export interface CheckedWorksheet {
-  statements: number;
+  lines: number;
 }
 
 /**
- * The evaluation limits, checked before any computation starts, so that a worksheet
- * that would tie up the workers is refused at once with the limit named. Length and
- * bracket depth are measured on each line first, because they bound the parser's own
- * recursion; the rest is read from the parse: statements (lines that fail to parse
- * count too) and the variables of each integral, symbolic when its integrand uses a
- * declared param or a let that does.
+ * The limits the server checks on the text itself, before any work is queued: size,
+ * and each line's length and bracket depth. These are single passes over the
+ * characters (no parsing), so a request costs the event loop about a millisecond at
+ * the size limit. What needs the parse (statement count, variables per integral) is
+ * checked in the evaluation worker, under its time limit: see checkParsedLimits.
  */
 export function checkEvaluationLimits(source: string): CheckedWorksheet {
   checkWorksheetSize(source);
@@ -41,10 +39,19 @@ export function checkEvaluationLimits(source: string): CheckedWorksheet {
       throw refuse('expression_too_deep', `Line ${index + 1} nests parentheses ${depth} deep; the limit is ${LIMITS.expressionDepth}. Simplify the expression.`);
     }
   });
-  const parsed = parseSource(source);
-  if (!parsed) {
-    throw refuse('expression_too_deep', `The worksheet chains operators (such as ^ or a leading minus) too deep to read; the limit is ${LIMITS.expressionDepth} levels. Simplify the expression.`);
-  }
+  return { lines: rows.length };
+}
+
+/** The worker's refusal when the parser ran out of stack (chains of ^ or unary minus thousands deep). */
+export const tooDeepToRead = () =>
+  refuse('expression_too_deep', `The worksheet chains operators (such as ^ or a leading minus) too deep to read; the limit is ${LIMITS.expressionDepth} levels. Simplify the expression.`);
+
+/**
+ * The limits read from the parse, checked in the evaluation worker before the first
+ * statement: statements (lines that fail to parse count too) and the variables of each
+ * integral, symbolic when its integrand uses a declared param or a let that does.
+ */
+export function checkParsedLimits(parsed: ParsedWorksheet): void {
   if (parsed.lines.length > LIMITS.statementsPerWorksheet) {
     throw refuse('too_many_statements', `The worksheet has ${parsed.lines.length} statements; the limit is ${LIMITS.statementsPerWorksheet}. Split it into several worksheets.`);
   }
@@ -65,5 +72,4 @@ export function checkEvaluationLimits(source: string): CheckedWorksheet {
       );
     }
   }
-  return { statements: parsed.lines.length };
 }

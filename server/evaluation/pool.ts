@@ -2,14 +2,30 @@ import { Worker } from 'node:worker_threads';
 import type { StopReason, StoppedStatement } from '../../cas/index.js';
 import { worksheetReport, type EvaluationProgress, type WorksheetReport } from '../../shared/evaluation.js';
 import type { Logger } from '../logger.js';
+import { HttpError } from '../middleware/http-error.js';
+import { fairnessSettings, type FairnessSettings } from './fairness-settings.js';
 import type { EvaluationTask, WorkerMessage } from './worker.js';
 
 const WORKER_URL = new URL('./worker-entry.mjs', import.meta.url);
 
+/** An owner without an account (a referee link). */
+const isGuest = (owner: string) => owner.startsWith('referee:');
+
+/** Beyond the worker's own stop (vm timeout, 250 ms over the limit): when the pool gives up on a worker. */
+const BACKSTOP_MS = 2_000;
+
 interface Job {
+  /** Whose evaluation this is ('user:12', 'referee:5'): the pool takes turns between owners. */
+  owner: string;
   source: string;
   /** Statements that already cost a worker; the next run reports them instead of running them. */
   stopped: StoppedStatement[];
+  /** Statement records made so far (JSON, by statement index): a replacement worker keeps them and goes on after them. */
+  done: Map<number, string>;
+  /** What is left of the worksheet's total time. */
+  budgetLeftMs: number;
+  /** Set once the worker has read the worksheet. */
+  total: number | null;
   resolve: (report: WorksheetReport) => void;
   reject: (err: Error) => void;
   progress?: ProgressListener;
@@ -19,14 +35,18 @@ interface Job {
 }
 
 export interface EvaluateCallOptions {
-  /** Aborting (the client went away, or pressed cancel) stops the work. */
+  /** Aborting (the client went away, or pressed cancel) stops the work, queued or running. */
   signal?: AbortSignal;
   progress?: ProgressListener;
+  /** Who asks; evaluations of different owners take turns (default: one shared owner). */
+  owner?: string;
 }
 
-/** Told as each statement starts; `total` is the statement count the limits check found. */
+/** Told what the worker learns as it goes. */
 export interface ProgressListener {
-  total: number;
+  /** Once, when the worker has read the worksheet and found it within the limits: its statement count. */
+  onAccepted?: (total: number) => void;
+  /** As each statement starts (a statement runs at most once per evaluation). */
   onProgress: (progress: EvaluationProgress) => void;
 }
 
@@ -44,31 +64,56 @@ export class EvaluationCancelled extends Error {
 }
 
 export interface PoolOptions {
+  /** Workers for evaluations; `fairness.extraWorkers` more may run while several owners wait. */
   size: number;
   timeLimitMsPerStatement: number;
   /** Heap limit per worker in MB (default 512); a statement that needs more gets an error, the server stays up. */
   maxOldGenerationSizeMb?: number;
   /** Where a malformed worker report is logged. */
   logger?: Pick<Logger, 'error'>;
+  /** Budgets, caps and sizes (default: from the environment, see fairness-settings.ts). */
+  fairness?: Partial<FairnessSettings>;
 }
 
 /**
- * Worksheet evaluation off the event loop. Each worker runs one worksheet at a time
- * and says when each statement starts. A statement that runs past the time limit,
- * exceeds the heap limit, or kills its worker for any other reason costs that worker:
- * it is replaced, and the worksheet is run again with that statement marked with the
- * reason — so the other statements keep their results and the server stays up.
+ * Worksheet evaluation off the event loop, shared fairly.
+ *
+ * - Each worker reads (parses) and evaluates one worksheet at a time and says when each
+ *   statement starts and what it produced. Nothing proportional to the worksheet runs
+ *   on the event loop except reading the final report (capped in size by the worker).
+ * - A statement that runs past its limit is stopped inside the worker, which goes on
+ *   with the next statement. A worker that does not stop (or runs out of memory, or
+ *   dies) is replaced, and the new worker resumes after the statement that cost it,
+ *   keeping the records already made: no statement starts twice.
+ * - A worksheet has a total time budget besides the per-statement limit.
+ * - Queued evaluations are served round robin by owner, owners who run nothing yet
+ *   first, so one person's flood never stands in front of another's small evaluation;
+ *   such an owner may start one on up to `extraWorkers` workers beyond `size` (all at
+ *   low CPU priority, see thread-priority.ts), so a small evaluation does not wait for
+ *   a long one to finish either. An owner gets a second worker only while one of the
+ *   first `size` is free. Referee links (no account) together use at most `size`
+ *   workers, so the extra ones stay for accounts.
  */
 export class EvaluationPool {
   private idle: Worker[] = [];
-  private queue: Job[] = [];
+  /** Queued jobs per owner, and the owners in the order they get their next turn. */
+  private queues = new Map<string, Job[]>();
+  private turns: string[] = [];
+  private runningByOwner = new Map<string, number>();
   private workers = new Set<Worker>();
   private closed = false;
+  readonly settings: FairnessSettings;
 
-  constructor(private readonly options: PoolOptions) {}
+  constructor(private readonly options: PoolOptions) {
+    this.settings = { ...fairnessSettings(), ...options.fairness };
+  }
 
   get size(): number {
     return this.options.size;
+  }
+
+  private get maxWorkers(): number {
+    return this.options.size + this.settings.extraWorkers;
   }
 
   private get memoryLimitMb(): number {
@@ -81,43 +126,108 @@ export class EvaluationPool {
   /** Evaluations asked of the pool (for tests and metrics: a stored report costs none). */
   evaluations = 0;
 
+  /** Statements started in workers, over all evaluations (for tests and metrics). */
+  statementsStarted = 0;
+
+  /** Evaluations waiting for a worker, and running. */
+  get load(): { queued: number; running: number } {
+    let queued = 0;
+    for (const q of this.queues.values()) queued += q.length;
+    let running = 0;
+    for (const n of this.runningByOwner.values()) running += n;
+    return { queued, running };
+  }
+
   evaluate(source: string, options: EvaluateCallOptions = {}): Promise<WorksheetReport> {
     if (this.closed) return Promise.reject(new Error('The evaluation pool is shut down.'));
     if (options.signal?.aborted) return Promise.reject(new EvaluationCancelled());
     this.evaluations += 1;
     return new Promise((resolve, reject) => {
-      const job: Job = { source, stopped: [], resolve, reject, progress: options.progress, signal: options.signal };
+      const job: Job = {
+        owner: options.owner ?? 'shared',
+        source,
+        stopped: [],
+        done: new Map(),
+        budgetLeftMs: this.settings.worksheetBudgetMs,
+        total: null,
+        resolve,
+        reject,
+        progress: options.progress,
+        signal: options.signal,
+      };
       options.signal?.addEventListener(
         'abort',
         () => {
-          const queued = this.queue.indexOf(job);
-          if (queued >= 0) this.queue.splice(queued, 1);
+          this.unqueue(job);
           job.cancel?.();
           reject(new EvaluationCancelled());
         },
         { once: true },
       );
-      this.queue.push(job);
+      this.enqueue(job);
       this.dispatch();
     });
   }
 
   async close(): Promise<void> {
     this.closed = true;
-    for (const job of this.queue.splice(0)) job.reject(new Error('The server is shutting down.'));
+    for (const q of this.queues.values()) for (const job of q.splice(0)) job.reject(new Error('The server is shutting down.'));
+    this.queues.clear();
+    this.turns = [];
     await Promise.all([...this.workers].map((w) => w.terminate()));
     this.workers.clear();
     this.idle = [];
   }
 
+  private enqueue(job: Job, first = false): void {
+    let q = this.queues.get(job.owner);
+    if (!q) {
+      q = [];
+      this.queues.set(job.owner, q);
+      this.turns.push(job.owner);
+    }
+    if (first) q.unshift(job);
+    else q.push(job);
+  }
+
+  private unqueue(job: Job): void {
+    const q = this.queues.get(job.owner);
+    const at = q?.indexOf(job) ?? -1;
+    if (at >= 0) q!.splice(at, 1);
+    if (q && !q.length) this.forgetOwner(job.owner);
+  }
+
+  private forgetOwner(owner: string): void {
+    this.queues.delete(owner);
+    this.turns = this.turns.filter((o) => o !== owner);
+  }
+
+  /** The next owner whose turn it is and who passes `may`; moves them to the back. */
+  private nextOwner(may: (owner: string) => boolean): string | null {
+    for (let i = 0; i < this.turns.length; i++) {
+      const owner = this.turns[i]!;
+      if (!may(owner)) continue;
+      this.turns.splice(i, 1);
+      this.turns.push(owner);
+      return owner;
+    }
+    return null;
+  }
+
   /** The worker's report crosses into the server only through the shared schema. */
-  private settle(job: Job, report: unknown): void {
+  private settle(job: Job, json: string): void {
+    let report: unknown;
+    try {
+      report = JSON.parse(json);
+    } catch {
+      report = null;
+    }
     const checked = worksheetReport.safeParse(report);
     if (checked.success) {
       job.resolve(checked.data);
       return;
     }
-    this.options.logger?.error({ issues: checked.error.issues.slice(0, 10) }, 'evaluation worker sent a malformed report');
+    this.options.logger?.error({ issues: checked.error?.issues.slice(0, 10) }, 'evaluation worker sent a malformed report');
     job.reject(new MalformedReport());
   }
 
@@ -126,35 +236,73 @@ export class EvaluationPool {
       resourceLimits: { maxOldGenerationSizeMb: this.memoryLimitMb },
     });
     worker.unref();
+    // A worker that dies while idle is simply dropped.
+    const dropIdle = () => {
+      if (this.idle.includes(worker)) {
+        this.idle = this.idle.filter((w) => w !== worker);
+        this.workers.delete(worker);
+      }
+    };
+    worker.on('exit', dropIdle);
+    worker.on('error', dropIdle);
     this.spawned += 1;
     this.workers.add(worker);
     return worker;
   }
 
+  /**
+   * Starts queued jobs: first, in turn, those of owners who run nothing yet (up to
+   * `size + extraWorkers` workers); then, while one of the first `size` workers is free,
+   * more jobs of owners who already run one (the pool is not left idle for fairness).
+   */
   private dispatch(): void {
-    while (this.queue.length && (this.idle.length || this.workers.size < this.options.size)) {
+    if (this.closed) return;
+    for (;;) {
+      const busy = this.load.running;
+      // Guests (referee links, no account) together use at most `size` workers: the
+      // extra ones stay for accounts, so anonymous traffic cannot hold every worker.
+      let guests = 0;
+      for (const [o, n] of this.runningByOwner) if (isGuest(o)) guests += n;
+      const room = (o: string) => !isGuest(o) || guests < this.options.size;
+      let owner = busy < this.maxWorkers ? this.nextOwner((o) => !this.runningByOwner.get(o) && room(o)) : null;
+      if (owner === null && busy < this.options.size) owner = this.nextOwner(room);
+      if (owner === null) break;
+      const q = this.queues.get(owner)!;
+      const job = q.shift()!;
+      if (!q.length) this.forgetOwner(owner);
       const worker = this.idle.pop() ?? this.spawn();
-      this.run(worker, this.queue.shift()!);
+      this.run(worker, job);
     }
+    // Keep one worker warm while work is about, so the next owner does not wait for a
+    // worker to load the computation core (about 0.4 s).
+    if (!this.idle.length && this.workers.size < this.maxWorkers && this.load.running > 0) this.idle.push(this.spawn());
   }
 
   private run(worker: Worker, job: Job): void {
     const limit = this.options.timeLimitMsPerStatement;
+    const startedAt = Date.now();
     let current = -1;
     let timer: NodeJS.Timeout | undefined;
     let settled = false;
-    // A little grace beyond the limit: the core checks its own deadline first and
-    // reports a cleaner error when it can.
-    const arm = () => {
+    this.runningByOwner.set(job.owner, (this.runningByOwner.get(job.owner) ?? 0) + 1);
+    const arm = (ms: number, stop: StopReason) => {
       clearTimeout(timer);
-      timer = setTimeout(() => retire({ reason: 'time' }), limit + 500);
+      timer = setTimeout(() => retire(stop), ms);
     };
+    // The whole run may not outlast what is left of the budget (plus the backstop).
+    const overall = setTimeout(() => retire({ reason: 'time' }), job.budgetLeftMs + limit + BACKSTOP_MS);
     const cleanup = () => {
       settled = true;
       clearTimeout(timer);
+      clearTimeout(overall);
+      job.budgetLeftMs = Math.max(0, job.budgetLeftMs - (Date.now() - startedAt));
+      job.cancel = undefined;
       worker.off('message', onMessage);
       worker.off('error', onError);
       worker.off('exit', onExit);
+      const n = (this.runningByOwner.get(job.owner) ?? 1) - 1;
+      if (n > 0) this.runningByOwner.set(job.owner, n);
+      else this.runningByOwner.delete(job.owner);
     };
     const retire = (stop: StopReason) => {
       if (settled || job.signal?.aborted) return;
@@ -163,10 +311,11 @@ export class EvaluationPool {
       void worker.terminate();
       if (current < 0 || job.stopped.some((x) => x.index === current)) {
         const why = stop.reason === 'time' ? 'time limit' : stop.reason === 'memory' ? `memory limit of ${stop.limitMb} MB` : stop.detail;
-        job.reject(new Error(`The evaluation worker stopped (${why}) before any statement ran.`));
+        job.reject(new Error(`The evaluation worker stopped (${why}) ${job.total === null ? 'while reading the worksheet' : 'outside any statement'}.`));
       } else {
+        // Resume in a new worker after the statement that cost this one.
         job.stopped = [...job.stopped, { index: current, ...stop }];
-        this.queue.unshift(job);
+        this.enqueue(job, true);
       }
       this.dispatch();
     };
@@ -177,17 +326,47 @@ export class EvaluationPool {
       void worker.terminate();
       this.dispatch();
     };
+    const finish = () => {
+      cleanup();
+      this.idle.push(worker);
+      this.dispatch();
+    };
     const onMessage = (message: WorkerMessage) => {
-      if (message.type === 'start') {
-        current = message.index;
-        job.progress?.onProgress({ index: message.index, line: message.line, total: job.progress.total });
-        arm();
-      } else {
-        cleanup();
-        this.idle.push(worker);
-        if (message.type === 'done') this.settle(job, message.report);
-        else job.reject(new Error(message.message));
-        this.dispatch();
+      if (settled) return;
+      switch (message.type) {
+        case 'parsing':
+          arm(limit + BACKSTOP_MS, { reason: 'time' });
+          return;
+        case 'refused':
+          finish();
+          job.reject(new HttpError(message.status, message.code, message.message));
+          return;
+        case 'parsed':
+          if (job.total === null) {
+            job.total = message.statements;
+            job.progress?.onAccepted?.(message.statements);
+          }
+          arm(limit + BACKSTOP_MS, { reason: 'crash', detail: 'it stopped answering between statements' });
+          return;
+        case 'start':
+          current = message.index;
+          this.statementsStarted += 1;
+          job.progress?.onProgress({ index: message.index, line: message.line, total: job.total ?? 0 });
+          arm(limit + BACKSTOP_MS, { reason: 'time' });
+          return;
+        case 'statement':
+          job.done.set(message.index, message.json);
+          current = -1;
+          arm(limit + BACKSTOP_MS, { reason: 'crash', detail: 'it stopped answering between statements' });
+          return;
+        case 'done':
+          finish();
+          this.settle(job, message.json);
+          return;
+        case 'failed':
+          finish();
+          job.reject(new Error(message.message));
+          return;
       }
     };
     // Node reports a worker that hit its heap limit by this code on the 'error' event.
@@ -197,8 +376,15 @@ export class EvaluationPool {
     worker.on('message', onMessage);
     worker.on('error', onError);
     worker.on('exit', onExit);
-    // Before the first statement starts, the worker may still be loading the core.
-    timer = setTimeout(() => retire({ reason: 'crash', detail: 'it did not start within 30 s' }), Math.max(limit, 30_000));
-    worker.postMessage({ source: job.source, timeLimitMsPerStatement: limit, stopped: job.stopped } satisfies EvaluationTask);
+    // Before it starts reading, the worker may still be loading the core.
+    arm(Math.max(limit, 30_000), { reason: 'crash', detail: 'it did not start within 30 s' });
+    worker.postMessage({
+      source: job.source,
+      timeLimitMsPerStatement: limit,
+      budgetMs: job.budgetLeftMs,
+      stopped: job.stopped,
+      previous: [...job.done],
+      sizes: { statementBytes: this.settings.statementBytes, reportBytes: this.settings.reportBytes },
+    } satisfies EvaluationTask);
   }
 }

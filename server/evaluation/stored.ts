@@ -1,8 +1,6 @@
 import { ENGINE_VERSION } from '../../cas/index.js';
 import { worksheetReport, type WorksheetReport } from '../../shared/evaluation.js';
 import { Evaluation } from '../models/index.js';
-import { checkEvaluationLimits } from './limits.js';
-import type { EvaluationPool } from './pool.js';
 
 /** A stored report and whether this engine made it. */
 export interface StoredReport {
@@ -25,14 +23,4 @@ export async function storedReport(worksheetId: number, version: number): Promis
 /** Keeps a version's report, replacing one an older engine made. */
 export async function storeReport(worksheetId: number, version: number, report: WorksheetReport): Promise<void> {
   await Evaluation.upsert({ worksheetId, version, report }, { conflictFields: ['worksheet_id', 'version'] } as never);
-}
-
-/** The current report of a worksheet version, computing and storing it when missing or made by another engine. */
-export async function reportForVersion(pool: EvaluationPool, worksheetId: number, version: number, source: string): Promise<WorksheetReport> {
-  const stored = await storedReport(worksheetId, version);
-  if (stored?.current) return stored.report;
-  checkEvaluationLimits(source);
-  const report = await pool.evaluate(source);
-  await storeReport(worksheetId, version, report);
-  return report;
 }

@@ -1,31 +1,111 @@
-// Runs inside a worker thread: evaluates one worksheet with the computation core and
-// reports each statement's start, so the pool can stop a statement that runs too long.
+// Runs inside a worker thread: reads (parses) and evaluates one worksheet at a time with
+// the computation core, and tells the pool each statement's start and report, so the
+// pool can stop a worker that hangs and resume the worksheet after it in a new one.
+//
+// Everything that costs time in proportion to the worksheet happens here, off the
+// server's event loop: the parse, the limits read from it, the statements, the size
+// of the report (serialised here; the server gets one string).
+import vm from 'node:vm';
 import { parentPort } from 'node:worker_threads';
-import { evaluateWorksheet, type StoppedStatement } from '../../cas/index.js';
+import { evaluateWorksheet, parseWorksheet, type ParsedWorksheet, type StoppedStatement } from '../../cas/index.js';
+import { TimeLimitError } from '../../cas/deadline.js';
+import type { StatementReport } from '../../shared/evaluation.js';
+import { HttpError } from '../middleware/http-error.js';
+import { checkParsedLimits, tooDeepToRead } from './limits.js';
+import { capStatement, type SizeLimits } from './report-size.js';
 import { lowerThisThreadPriority } from './thread-priority.js';
 
 export interface EvaluationTask {
   source: string;
   timeLimitMsPerStatement: number;
+  /** What is left of the worksheet's total time (it shrinks across worker replacements). */
+  budgetMs: number;
   stopped: StoppedStatement[];
+  /** Statement reports an earlier worker made for this job (as JSON), by statement index. */
+  previous: [number, string][];
+  sizes: SizeLimits;
 }
 
 export type WorkerMessage =
+  | { type: 'parsing' }
+  | { type: 'refused'; status: number; code: string; message: string }
+  | { type: 'parsed'; statements: number }
   | { type: 'start'; index: number; line: number }
-  | { type: 'done'; report: unknown }
+  | { type: 'statement'; index: number; json: string }
+  | { type: 'done'; json: string }
   | { type: 'failed'; message: string };
 
 lowerThisThreadPriority(10);
 
+// A statement that never reaches a deadline check (one long step in the core) is stopped
+// by V8 itself: code run through vm with a timeout is terminated when it runs over, and
+// the worker goes on with the next statement instead of being replaced. The context is
+// empty; `run` is the only thing it can see.
+const sandbox = vm.createContext({ run: null as unknown });
+const GRACE_MS = 250;
+function guarded<T>(run: () => T, limitMs: number): T {
+  sandbox['run'] = run;
+  try {
+    return vm.runInContext('run()', sandbox, { timeout: Math.max(1, Math.ceil(limitMs + GRACE_MS)) }) as T;
+  } catch (err) {
+    if ((err as { code?: string })?.code === 'ERR_SCRIPT_EXECUTION_TIMEOUT') throw new TimeLimitError(limitMs);
+    throw err;
+  } finally {
+    sandbox['run'] = null;
+  }
+}
+
+const post = (m: WorkerMessage) => parentPort!.postMessage(m);
+
+function readWorksheet(task: EvaluationTask): ParsedWorksheet | null {
+  try {
+    const parsed = guarded(() => parseWorksheet(task.source), task.timeLimitMsPerStatement);
+    checkParsedLimits(parsed);
+    return parsed;
+  } catch (err) {
+    const refusal =
+      err instanceof HttpError
+        ? err
+        : err instanceof RangeError
+          ? tooDeepToRead()
+          : err instanceof TimeLimitError
+            ? new HttpError(422, 'worksheet_too_complex', `Reading the worksheet took longer than the time limit of ${task.timeLimitMsPerStatement / 1000} s. Split it into several worksheets.`)
+            : null;
+    if (!refusal) throw err;
+    post({ type: 'refused', status: refusal.status, code: refusal.code, message: refusal.message });
+    return null;
+  }
+}
+
 parentPort!.on('message', (task: EvaluationTask) => {
   try {
+    post({ type: 'parsing' });
+    const parsed = readWorksheet(task);
+    if (!parsed) return;
+    post({ type: 'parsed', statements: parsed.lines.length });
+    const previous = task.previous.map(([i, json]) => [i, JSON.parse(json) as StatementReport] as const);
+    let total = previous.reduce((n, [, r]) => n + JSON.stringify(r).length, 0);
     const report = evaluateWorksheet(task.source, {
+      parsed,
       timeLimitMsPerStatement: task.timeLimitMsPerStatement,
+      budgetMs: task.budgetMs,
       stopped: task.stopped,
-      onStatementStart: (index, line) => parentPort!.postMessage({ type: 'start', index, line } satisfies WorkerMessage),
+      previous,
+      guard: guarded,
+      onStatementStart: (index, line) => post({ type: 'start', index, line }),
+      onStatementDone: (index, r) => {
+        // the record's size is decided here, so the server never holds more than the cap
+        const capped = capStatement(r, total, task.sizes);
+        total += capped.json.length;
+        if (capped.report !== r) {
+          for (const key of Object.keys(r)) delete (r as Record<string, unknown>)[key];
+          Object.assign(r, capped.report);
+        }
+        post({ type: 'statement', index, json: capped.json });
+      },
     });
-    parentPort!.postMessage({ type: 'done', report } satisfies WorkerMessage);
+    post({ type: 'done', json: JSON.stringify(report) });
   } catch (err) {
-    parentPort!.postMessage({ type: 'failed', message: err instanceof Error ? err.message : String(err) } satisfies WorkerMessage);
+    post({ type: 'failed', message: err instanceof Error ? err.message : String(err) });
   }
 });

@@ -1,5 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { isDatabaseUnavailable } from '../db/unavailable.js';
+import { EvaluationCancelled } from '../evaluation/pool.js';
 import type { Logger } from '../logger.js';
 import { HttpError } from './http-error.js';
 
@@ -10,6 +11,12 @@ export const unknownApiRoute: RequestHandler = (req, _res, next) => {
 /** Turns every error into `{ error: { code, message } }`; no stack trace leaves the server. */
 export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (err, req, res, _next) => {
+    // The caller went away during an evaluation: nobody is waiting for an answer.
+    if (err instanceof EvaluationCancelled) {
+      logger.debug({ url: req.originalUrl }, 'evaluation cancelled: the caller went away');
+      if (!res.writableEnded) res.end();
+      return;
+    }
     // A streamed answer (server-sent events) has begun: nothing more can be said.
     if (res.headersSent) {
       res.end();

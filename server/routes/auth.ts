@@ -1,6 +1,5 @@
 import { Router, type Request, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import passport from 'passport';
 import { z } from 'zod';
 import { loginBody, registerBody } from '../../shared/api.js';
 import { currentUser, requireUser } from '../middleware/auth.js';
@@ -8,6 +7,7 @@ import { HttpError } from '../middleware/http-error.js';
 import { parseInput } from '../middleware/validate.js';
 import type { User } from '../models/index.js';
 import { register, unlockAccount } from '../services/users.js';
+import type { SignInService } from '../auth/sign-in.js';
 import { issueCsrfToken } from '../middleware/csrf.js';
 
 const unlockBody = z.object({ token: z.string().min(10).max(200) });
@@ -23,21 +23,10 @@ function signIn(req: Request, res: Response, user: User): Promise<void> {
   );
 }
 
-export function authRoutes(options: { loginRateLimit: number }): Router {
+export function authRoutes(options: { loginRateLimit: number; signIn: SignInService }): Router {
   const router = Router();
   const tooMany = (what: string) => ({
     error: { code: 'rate_limited', message: `Too many ${what} attempts. Wait 15 minutes and try again.` },
-  });
-  const loginLimiter = rateLimit({
-    windowMs: 15 * 60_000,
-    limit: options.loginRateLimit,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    // Only failed attempts count: a group signing in from one address is not throttled.
-    skipSuccessfulRequests: true,
-    keyGenerator: (req) => `${req.ip}|${String(req.body?.email ?? '').toLowerCase()}`,
-    validate: { keyGeneratorIpFallback: false },
-    message: tooMany('sign-in'),
   });
   const registerLimiter = rateLimit({
     windowMs: 60 * 60_000,
@@ -50,19 +39,19 @@ export function authRoutes(options: { loginRateLimit: number }): Router {
   router.post('/register', registerLimiter, async (req, res) => {
     const body = parseInput(registerBody, req.body);
     const user = await register(body);
+    await options.signIn.remember(user, req.ip);
     await signIn(req, res, user);
     res.status(201).json({ user: user.toDto() });
   });
 
-  router.post('/login', loginLimiter, async (req, res) => {
-    parseInput(loginBody, req.body);
-    const user = await new Promise<User>((resolve, reject) =>
-      passport.authenticate('local', { session: false }, (err: unknown, found: User | false, info?: { message: string }) => {
-        if (err) return reject(err);
-        if (!found) return reject(new HttpError(401, 'bad_credentials', info?.message ?? 'Sign-in failed.'));
-        resolve(found);
-      })(req, res),
-    );
+  // Sign-in back-off (per account and client address, per client address, per account)
+  // is in the database: see server/auth/throttle.ts.
+  router.post('/login', async (req, res) => {
+    const body = parseInput(loginBody, req.body);
+    const user = await options.signIn.authenticate(body.email, body.password, req.ip).catch((err) => {
+      if (typeof err?.extra?.retryAfter === 'number') res.set('Retry-After', String(err.extra.retryAfter));
+      throw err;
+    });
     await signIn(req, res, user);
     res.json({ user: user.toDto() });
   });

@@ -1,18 +1,23 @@
 import { Router, type Request } from 'express';
 import type { EvaluationPool } from '../evaluation/pool.js';
-import { reportForVersion } from '../evaluation/stored.js';
 import { latexAppendix } from '../exports/latex.js';
 import { currentUser } from '../middleware/auth.js';
 import { requireWorksheetRole } from '../middleware/group-access.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, routeParam } from '../middleware/validate.js';
-import { findVersionToExport, recordExport } from '../services/exports.js';
+import { findVersionToExport } from '../services/exports.js';
+import { callerAsOwner, shownReport } from './evaluate.js';
 import { statementReviews } from '../services/reviews.js';
 
 // A title, not worksheet text: the pattern only picks a safe file name.
 const fileSafe = (title: string) => title.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 80) || 'worksheet';
 
-/** GET /api/worksheets/:id/export?format=swk|json|latex&version=N (the current version by default). */
+/**
+ * GET /api/worksheets/:id/export?format=swk|json|latex&version=N (the current version by default).
+ * A GET writes nothing: no activity line, no stored report. JSON and LaTeX use the stored
+ * report when this engine made it, else one computed for this request only (under the
+ * caller's cap, cancelled when the caller goes away).
+ */
 export function exportRoutes(pool: EvaluationPool): Router {
   const router = Router();
   router.get('/worksheets/:id/export', async (req, res) => {
@@ -25,12 +30,12 @@ export function exportRoutes(pool: EvaluationPool): Router {
     const version = await findVersionToExport(id, number);
     if (!version) throw notFound(`Version ${number} of this worksheet`);
     const name = `${fileSafe(version.title)}-v${number}`;
-    await recordExport(worksheet, user.id, version, format);
     if (format === 'swk') {
       res.set({ 'content-type': 'text/plain; charset=utf-8', 'content-disposition': `attachment; filename="${name}.swk"` }).send(version.source);
       return;
     }
-    const report = await reportForVersion(pool, id, number, version.source);
+    const report = await shownReport(pool, id, number, version.source, res, callerAsOwner(pool, req));
+    if (!report) return; // the caller went away
     // Review status belongs to the statements as they stand in this version.
     const reviews = await statementReviews(id, version.source);
     if (format === 'json') {

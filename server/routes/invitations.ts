@@ -7,10 +7,12 @@ import { currentUser } from '../middleware/auth.js';
 import { issueCsrfToken } from '../middleware/csrf.js';
 import { requireGroupRole } from '../middleware/group-access.js';
 import { idParam, parseInput } from '../middleware/validate.js';
+import { HttpError } from '../middleware/http-error.js';
 import type { Invitation, User } from '../models/index.js';
-import { acceptInvitation, accountExists, invite, pendingInvitations, revokeInvitation, usableInvitation } from '../services/invitations.js';
+import type { SignInService } from '../auth/sign-in.js';
+import { acceptInvitation, accountExists, assertInvitedAddress, invite, pendingInvitations, revokeInvitation, usableInvitation, type Acceptor } from '../services/invitations.js';
 
-const toDto = (i: Invitation): InvitationDto => ({
+export const invitationDto = (i: Invitation): InvitationDto => ({
   id: i.id,
   email: i.email,
   role: i.role,
@@ -34,7 +36,7 @@ export function groupInvitationRoutes(config: ServerConfig, mailer: Mailer): Rou
     const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
     await requireGroupRole(currentUser(req).id, groupId, 'manageMembers');
     const pending = await pendingInvitations(groupId);
-    res.json({ invitations: pending.map(toDto) });
+    res.json({ invitations: pending.map(invitationDto) });
   });
 
   router.post('/', limiter, async (req, res) => {
@@ -43,7 +45,7 @@ export function groupInvitationRoutes(config: ServerConfig, mailer: Mailer): Rou
     await requireGroupRole(user.id, groupId, 'manageMembers');
     const body = parseInput(inviteBody, req.body);
     const invitation = await invite({ groupId, inviter: user, email: body.email, role: body.role, mailer, linkBase: config.publicUrl });
-    res.status(201).json({ invitation: toDto(invitation) });
+    res.status(201).json({ invitation: invitationDto(invitation) });
   });
 
   router.delete('/:invitationId', async (req, res) => {
@@ -67,7 +69,7 @@ function login(req: Request, res: Response, user: User) {
 }
 
 /** Routes under /api/invitations/:token (no account needed to look). */
-export function invitationRoutes(): Router {
+export function invitationRoutes(signIn: SignInService): Router {
   const router = Router();
 
   router.get('/:token', async (req, res) => {
@@ -83,10 +85,34 @@ export function invitationRoutes(): Router {
     res.json({ invitation: preview });
   });
 
+  // Only the invited address joins: signed in as it, signed in here with its password
+  // (through the same back-off as the sign-in form, so a lock is not bypassed), or as a
+  // new account for it. Another signed-in account is told the invitation is not theirs.
   router.post('/:token/accept', async (req, res) => {
     const body = parseInput(acceptInvitationBody, req.body);
-    const result = await acceptInvitation(String((req.params as Record<string, string>)['token']), (req.user as User | undefined) ?? null, body);
-    if (!req.user) await login(req, res, result.user);
+    const token = String((req.params as Record<string, string>)['token']);
+    const invitation = await usableInvitation(token);
+    const signedIn = (req.user as User | undefined) ?? null;
+    let acceptor: Acceptor;
+    if (signedIn) {
+      assertInvitedAddress(invitation, signedIn);
+      acceptor = { user: signedIn };
+    } else if (await accountExists(invitation.email)) {
+      if (!body.password) throw new HttpError(401, 'bad_credentials', `Enter the password of the account ${invitation.email} to accept.`);
+      const user = await signIn.authenticate(invitation.email, body.password, req.ip).catch((err) => {
+        if (typeof err?.extra?.retryAfter === 'number') res.set('Retry-After', String(err.extra.retryAfter));
+        if (err?.code === 'bad_credentials') throw new HttpError(401, 'bad_credentials', `The password is wrong. Enter the password of the account ${invitation.email} to accept.`);
+        throw err;
+      });
+      acceptor = { user };
+    } else {
+      acceptor = { newAccount: body };
+    }
+    const result = await acceptInvitation(token, acceptor);
+    if (!signedIn) {
+      if (result.created) await signIn.remember(result.user, req.ip);
+      await login(req, res, result.user);
+    }
     res.status(result.created ? 201 : 200).json({ user: result.user.toDto(), groupId: result.groupId });
   });
 

@@ -1,10 +1,15 @@
 import { Router } from 'express';
+import { rateLimit } from 'express-rate-limit';
 import { addMemberBody, changeMemberBody, type MemberDto } from '../../shared/api.js';
+import type { ServerConfig } from '../config.js';
+import type { Mailer } from '../mail/mailer.js';
 import { currentUser } from '../middleware/auth.js';
 import { requireGroupRole } from '../middleware/group-access.js';
 import { idParam, parseInput } from '../middleware/validate.js';
 import type { Membership } from '../models/index.js';
-import { addMember, changeMemberRole, listMembers, removeMember } from '../services/members.js';
+import { invite } from '../services/invitations.js';
+import { changeMemberRole, listMembers, removeMember } from '../services/members.js';
+import { invitationDto } from './invitations.js';
 
 const toDto = (m: Membership): MemberDto => ({
   userId: m.userId,
@@ -13,10 +18,17 @@ const toDto = (m: Membership): MemberDto => ({
   role: m.role,
 });
 
-export function memberRoutes(): Router {
+export function memberRoutes(config: ServerConfig, mailer: Mailer): Router {
   const router = Router({ mergeParams: true });
   const groupOf = (params: unknown) => idParam((params as Record<string, string>)['groupId'], 'This group');
   const memberOf = (params: unknown) => idParam((params as Record<string, string>)['userId'], 'This member');
+  const limiter = rateLimit({
+    windowMs: 60 * 60_000,
+    limit: 50,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    message: { error: { code: 'rate_limited', message: 'Too many invitations in the last hour. Wait a while and try again.' } },
+  });
 
   router.get('/', async (req, res) => {
     const groupId = groupOf(req.params);
@@ -24,25 +36,36 @@ export function memberRoutes(): Router {
     res.json({ members: (await listMembers(groupId)).map(toDto) });
   });
 
-  router.post('/', async (req, res) => {
+  // Members join by invitation only: adding an address mails it an invitation, and the
+  // answer is the same whether or not the address has an account (nothing to enumerate,
+  // and nobody joins a group without saying yes).
+  router.post('/', limiter, async (req, res) => {
+    const user = currentUser(req);
     const groupId = groupOf(req.params);
-    await requireGroupRole(currentUser(req).id, groupId, 'manageMembers');
+    await requireGroupRole(user.id, groupId, 'manageMembers');
     const body = parseInput(addMemberBody, req.body);
-    res.status(201).json({ member: toDto(await addMember(groupId, body.email, body.role)) });
+    const invitation = await invite({ groupId, inviter: user, email: body.email, role: body.role, mailer, linkBase: config.publicUrl });
+    res.status(202).json({
+      invitation: invitationDto(invitation),
+      message: `We sent an invitation to ${invitation.email}. They join as ${invitation.role} when they accept it.`,
+    });
   });
 
+  // Role checks happen again inside the service's transaction, under the group's row locks.
   router.patch('/:userId', async (req, res) => {
+    const actor = currentUser(req);
     const groupId = groupOf(req.params);
-    await requireGroupRole(currentUser(req).id, groupId, 'manageMembers');
+    await requireGroupRole(actor.id, groupId, 'manageMembers');
     const userId = memberOf(req.params);
     const body = parseInput(changeMemberBody, req.body);
-    res.json({ member: toDto(await changeMemberRole(groupId, userId, body.role)) });
+    res.json({ member: toDto(await changeMemberRole(groupId, actor.id, userId, body.role)) });
   });
 
   router.delete('/:userId', async (req, res) => {
+    const actor = currentUser(req);
     const groupId = groupOf(req.params);
-    await requireGroupRole(currentUser(req).id, groupId, 'manageMembers');
-    await removeMember(groupId, memberOf(req.params));
+    await requireGroupRole(actor.id, groupId, 'manageMembers');
+    await removeMember(groupId, actor.id, memberOf(req.params));
     res.status(204).end();
   });
 

@@ -2,12 +2,13 @@ import { Router } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { RESET_MINUTES, resetConfirmBody, resetRequestBody } from '../../shared/collaboration.js';
 import type { ServerConfig } from '../config.js';
+import type { Logger } from '../logger.js';
 import type { Mailer } from '../mail/mailer.js';
 import { parseInput } from '../middleware/validate.js';
 import { confirmPasswordReset, requestPasswordReset } from '../services/users.js';
 
 /** Routes under /api/auth/password-reset. */
-export function passwordResetRoutes(config: ServerConfig, mailer: Mailer): Router {
+export function passwordResetRoutes(config: ServerConfig, mailer: Mailer, logger: Logger): Router {
   const router = Router();
   const limiter = rateLimit({
     windowMs: 15 * 60_000,
@@ -17,10 +18,13 @@ export function passwordResetRoutes(config: ServerConfig, mailer: Mailer): Route
     message: { error: { code: 'rate_limited', message: 'Too many reset requests. Wait 15 minutes and try again.' } },
   });
 
-  // The same answer whether or not the address has an account: no hint either way.
-  router.post('/', limiter, async (req, res) => {
+  // The same answer whether or not the address has an account, and in the same time: it
+  // is sent before the account is even looked up; the link is made and queued afterwards.
+  router.post('/', limiter, (req, res) => {
     const { email } = parseInput(resetRequestBody, req.body);
-    await requestPasswordReset(email, mailer, config.publicUrl);
+    res.once('close', () => {
+      requestPasswordReset(email, mailer, config.publicUrl).catch((err) => logger.warn({ err: err?.message }, 'password reset request failed'));
+    });
     res.status(202).json({ message: `If an account has this address, a link to choose a new password is on its way. It works once, for ${RESET_MINUTES} minutes.` });
   });
 

@@ -3,11 +3,12 @@ import { z } from 'zod';
 import { hashToken, newToken } from '../auth/tokens.js';
 import type { ServerConfig } from '../config.js';
 import type { EvaluationPool } from '../evaluation/pool.js';
-import { reportForVersion } from '../evaluation/stored.js';
+import { refereeOwner } from '../evaluation/slots.js';
 import { currentUser, requireUser } from '../middleware/auth.js';
 import { requireWorksheetRole } from '../middleware/group-access.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, parseInput, routeParam } from '../middleware/validate.js';
+import { shownReport } from './evaluate.js';
 import { createRefereeLink, findRefereeLink, findVersion, listRefereeLinks, revokeRefereeLink } from '../services/referee.js';
 
 const createBody = z.object({ version: z.number().int().min(1).optional(), days: z.number().int().min(1).max(90, 'A referee link lasts at most 90 days.') });
@@ -45,6 +46,8 @@ export function refereeRoutes(config: ServerConfig, pool: EvaluationPool): Route
   });
 
   // No account needed: the worksheet's one frozen version and its findings, nothing else.
+  // Nothing is written: the stored report when current, else one computed for this
+  // request only, under the link's own cap and cancelled when the referee goes away.
   router.get('/referee/:token', async (req, res) => {
     const token = String(routeParam(req, 'token'));
     const link = token.length > 200 ? undefined : await findRefereeLink(hashToken(token));
@@ -52,7 +55,8 @@ export function refereeRoutes(config: ServerConfig, pool: EvaluationPool): Route
     if (link.revoked_at) throw new HttpError(410, 'link_revoked', 'This referee link was withdrawn by the authors.');
     if (new Date(link.expires_at).getTime() <= Date.now()) throw new HttpError(410, 'link_expired', 'This referee link has expired. Ask the authors for a new one.');
     const version = (await findVersion(link.worksheet_id, link.version))!;
-    const report = await reportForVersion(pool, link.worksheet_id, link.version, version.source);
+    const report = await shownReport(pool, link.worksheet_id, link.version, version.source, res, { owner: refereeOwner(link.id), cap: pool.settings.capPerRefereeLink });
+    if (!report) return; // the referee went away
     res.set('cache-control', 'no-store').json({
       worksheet: { title: version.title, version: link.version, savedAt: version.createdAt.toISOString(), source: version.source },
       report,

@@ -2,14 +2,14 @@ import { Router } from 'express';
 import { createWorksheetBody, saveWorksheetBody, worksheetListQuery, type GroupRole, type WorksheetDto, type WorksheetSummaryDto } from '../../shared/api.js';
 import { currentUser } from '../middleware/auth.js';
 import { requireGroupRole, requireWorksheetRole } from '../middleware/group-access.js';
-import { HttpError } from '../middleware/http-error.js';
+import { HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, parseInput } from '../middleware/validate.js';
 import type { Worksheet } from '../models/index.js';
 import type { EvaluationPool } from '../evaluation/pool.js';
 import { storedReport, storeReport } from '../evaluation/stored.js';
 import { evaluateForRequest } from './evaluate.js';
 import { checkEvaluationLimits, checkWorksheetSize } from '../evaluation/limits.js';
-import { createWorksheet, deleteWorksheet, listVersions, listWorksheets, saveWorksheet, withAuthor } from '../services/worksheets.js';
+import { createWorksheet, deleteWorksheet, listVersions, listWorksheets, saveWorksheet, unlessDeleted, withAuthor, worksheetGone } from '../services/worksheets.js';
 
 const summary = (w: Worksheet): WorksheetSummaryDto => ({
   id: w.id,
@@ -39,7 +39,8 @@ export function groupWorksheetRoutes(): Router {
     const role = await requireGroupRole(user.id, groupId, 'editWorksheets');
     const body = parseInput(createWorksheetBody, req.body);
     checkWorksheetSize(body.source);
-    const worksheet = await createWorksheet({ groupId, user, title: body.title, source: body.source, action: 'created worksheet' });
+    // The group may be deleted meanwhile: then its row is gone and the insert's key with it.
+    const worksheet = await unlessDeleted(() => createWorksheet({ groupId, user, title: body.title, source: body.source, action: 'created worksheet' }), () => notFound('This group'));
     res.status(201).json({ worksheet: detail(worksheet, role) });
   });
 
@@ -71,7 +72,7 @@ export function worksheetRoutes(pool: EvaluationPool): Router {
     const checked = checkEvaluationLimits(worksheet.source);
     const report = await evaluateForRequest(pool, worksheet.source, checked, req, res);
     if (!report) return;
-    await storeReport(id, worksheet.version, report);
+    await unlessDeleted(() => storeReport(id, worksheet.version, report), () => worksheetGone('while it was being evaluated'));
     if (!res.headersSent) res.json({ version: worksheet.version, report });
   });
 

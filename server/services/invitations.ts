@@ -1,14 +1,17 @@
 /** Queries of invitations: sending, withdrawing, looking at and accepting them. */
-import { Op } from 'sequelize';
-import { INVITATION_DAYS, type AcceptInvitationBody } from '../../shared/collaboration.js';
-import { LIMITS, type GroupRole } from '../../shared/api.js';
+import { Op, UniqueConstraintError } from 'sequelize';
+import { INVITATION_DAYS } from '../../shared/collaboration.js';
+import type { GroupRole } from '../../shared/api.js';
 import { recordActivity } from '../activity/record.js';
-import { checkPassword, hashPassword } from '../auth/password.js';
+import { hashPassword } from '../auth/password.js';
+import { assertPasswordAllowed } from '../auth/password-policy.js';
+import { normaliseEmail } from '../auth/throttle.js';
 import { hashToken, newToken } from '../auth/tokens.js';
 import type { Mailer } from '../mail/mailer.js';
 import { invitationMail } from '../mail/templates.js';
 import { HttpError, notFound } from '../middleware/http-error.js';
 import { Group, Invitation, Membership, User } from '../models/index.js';
+import { emailTakenOnRace } from './users.js';
 
 export const pendingInvitations = (groupId: number) =>
   Invitation.findAll({
@@ -66,36 +69,55 @@ export async function usableInvitation(token: string): Promise<Invitation> {
 
 export const accountExists = async (email: string) => (await User.count({ where: { email } })) > 0;
 
+/** A signed-in account whose address is not the invited one is told so, and how to go on. */
+export function assertInvitedAddress(invitation: Invitation, user: User): void {
+  if (normaliseEmail(user.email) === normaliseEmail(invitation.email)) return;
+  throw new HttpError(
+    403,
+    'invitation_other_address',
+    `This invitation is for ${invitation.email}, and you are signed in as ${user.email}. Sign out and open the link again as ${invitation.email}, or ask the group owner to invite ${user.email}.`,
+  );
+}
+
 /**
- * Accepts an invitation as the signed-in person, or as the invited address's account
- * (with its password), or as a new account. Locked so that two clicks on one link
- * cannot both use it.
+ * Who accepts: the invited address's account, already signed in or just signed in with
+ * its password through the sign-in back-off (the route does that), or a new account for
+ * the invited address.
  */
-export function acceptInvitation(token: string, signedIn: User | null, body: AcceptInvitationBody): Promise<{ user: User; created: boolean; groupId: number }> {
+export type Acceptor = { user: User } | { newAccount: { displayName?: string | undefined; password?: string | undefined } };
+
+/**
+ * Accepts an invitation for the invited address only. Locked so that two clicks on one
+ * link cannot both use it.
+ */
+export function acceptInvitation(token: string, acceptor: Acceptor): Promise<{ user: User; created: boolean; groupId: number }> {
   return Invitation.sequelize!.transaction(async (transaction) => {
     const found = await usableInvitation(token);
     const invitation = (await Invitation.findByPk(found.id, { transaction, lock: transaction.LOCK.UPDATE }))!;
     if (invitation.acceptedAt) throw new HttpError(410, 'invitation_used', 'This invitation was used already.');
-    let user = signedIn;
+    if (invitation.revokedAt) throw new HttpError(410, 'invitation_revoked', 'This invitation was withdrawn. Ask the group owner for a new one.');
+    let user: User;
     let created = false;
-    if (!user) {
-      user = await User.findOne({ where: { email: invitation.email }, transaction });
-      if (user) {
-        if (!body.password || !(await checkPassword(body.password, user.passwordHash))) {
-          throw new HttpError(401, 'bad_credentials', `Enter the password of the account ${invitation.email} to accept.`);
-        }
-      } else {
-        if (!body.displayName) throw new HttpError(400, 'invalid_input', 'displayName: Enter a display name.');
-        if (!body.password || body.password.length < LIMITS.passwordMin) {
-          throw new HttpError(400, 'invalid_input', `password: Use a password of at least ${LIMITS.passwordMin} characters.`);
-        }
-        user = await User.create({ email: invitation.email, displayName: body.displayName, passwordHash: await hashPassword(body.password) }, { transaction });
-        created = true;
-      }
+    if ('user' in acceptor) {
+      user = acceptor.user;
+      assertInvitedAddress(invitation, user);
+    } else {
+      const { displayName, password } = acceptor.newAccount;
+      if (!displayName) throw new HttpError(400, 'invalid_input', 'displayName: Enter a display name.');
+      if (!password) throw new HttpError(400, 'invalid_input', 'password: Choose a password.');
+      assertPasswordAllowed(password, invitation.email);
+      const passwordHash = await hashPassword(password);
+      user = await User.create({ email: normaliseEmail(invitation.email), displayName, passwordHash }, { transaction }).catch(emailTakenOnRace);
+      created = true;
     }
     if (user.disabled) throw new HttpError(403, 'account_disabled', 'This account is disabled. Ask the site admin to enable it.');
     const already = await Membership.findOne({ where: { groupId: invitation.groupId, userId: user.id }, transaction });
-    if (!already) await Membership.create({ groupId: invitation.groupId, userId: user.id, role: invitation.role }, { transaction });
+    if (!already) {
+      await Membership.create({ groupId: invitation.groupId, userId: user.id, role: invitation.role }, { transaction }).catch((err) => {
+        if (err instanceof UniqueConstraintError) throw new HttpError(409, 'already_member', 'You joined this group meanwhile. Open the group from your list.');
+        throw err;
+      });
+    }
     await invitation.update({ acceptedAt: new Date() }, { transaction });
     return { user, created, groupId: invitation.groupId };
   });

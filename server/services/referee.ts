@@ -28,4 +28,4 @@ export async function revokeRefereeLink(worksheet: Worksheet, linkId: number, us
 }
 
 export const findRefereeLink = async (tokenHash: string) =>
-  (await q<{ worksheet_id: number; version: number; expires_at: Date; revoked_at: Date | null }>('SELECT worksheet_id, version, expires_at, revoked_at FROM referee_links WHERE token_hash = $1', [tokenHash]))[0];
+  (await q<{ id: number; worksheet_id: number; version: number; expires_at: Date; revoked_at: Date | null }>('SELECT id, worksheet_id, version, expires_at, revoked_at FROM referee_links WHERE token_hash = $1', [tokenHash]))[0];

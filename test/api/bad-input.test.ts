@@ -56,7 +56,7 @@ describe('bad input', () => {
 
   test('short password at registration → 400', async () => {
     const res = await new ApiClient(server.url).post('/api/auth/register', { email: 'short@x.test', displayName: 'S', password: 'short' });
-    assertError(res, 400, /at least 10 characters/);
+    assertError(res, 400, /at least 12 characters/);
   });
 
   test('a taken e-mail at registration → 409', async () => {
@@ -118,5 +118,37 @@ describe('worksheet list', () => {
     assert.deepEqual(found.json.items.map((w: { title: string }) => w.title), ['Free particle in three time slices']);
     const literal = await author.get(`/api/groups/${groupId}/worksheets?search=${encodeURIComponent('%')}`);
     assert.equal(literal.json.total, 0, 'a % in the search box is a literal, not a wildcard');
+  });
+});
+
+describe('NUL characters (U+0000)', () => {
+  const nulMessage = /NUL character \(U\+0000\).*cannot be stored.*delete it/;
+
+  test('a save, a new worksheet and a title with NUL → 400 saying where and what to do; nothing stored', async () => {
+    const sheet = (await author.get(`/api/worksheets/${worksheetId}`)).json.worksheet;
+    const save = await author.put(`/api/worksheets/${worksheetId}`, { source: 'note "one"\nnote "t\u0000wo"', baseVersion: sheet.version });
+    assertError(save, 400, nulMessage);
+    assert.equal(save.json.error.code, 'nul_character');
+    assert.match(save.json.error.message, /^source: .*at line 2, column 8/);
+    const rename = await author.put(`/api/worksheets/${worksheetId}`, { title: 'a\u0000b', source: sheet.source, baseVersion: sheet.version });
+    assertError(rename, 400, /^title: .*NUL character/);
+    const created = await author.post(`/api/groups/${groupId}/worksheets`, { title: 'nul\u0000title', source: 'note "x"' });
+    assertError(created, 400, nulMessage);
+    const after = (await author.get(`/api/worksheets/${worksheetId}`)).json.worksheet;
+    assert.equal(after.version, sheet.version, 'no version was saved');
+    const [rows] = await server.running.sequelize.query(`SELECT count(*)::int AS n FROM worksheets WHERE title LIKE 'nul%'`);
+    assert.equal((rows as { n: number }[])[0]!.n, 0);
+  });
+
+  test('an imported .swk with a NUL byte, and an import title with one → 400', async () => {
+    const file = await author.upload(`/api/groups/${groupId}/imports`, 'nul.swk', Buffer.from('note "a"\nnote "b\u0000"\n'));
+    assertError(file, 400, nulMessage);
+    assert.match(file.json.error.message, /at line 2, column 8/);
+    const title = await author.upload(`/api/groups/${groupId}/imports`, 'ok.swk', 'note "a"\n', { title: 'x\u0000y' });
+    assertError(title, 400, /^title: .*NUL character/);
+  });
+
+  test('a search with NUL → 400, not a query', async () => {
+    assertError(await author.get(`/api/groups/${groupId}/worksheets?search=a%00b`), 400, /^search: .*NUL character/);
   });
 });

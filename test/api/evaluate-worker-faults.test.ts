@@ -49,3 +49,17 @@ test('the memory limit stops one statement; the worker is replaced; the rest kee
   assert.equal(again.json.statements[1].status, 'ok');
   assert.equal((await author.get('/api/groups')).status, 200);
 });
+
+test('after a worker dies, the new one resumes after the statement that cost it: no statement starts twice', async () => {
+  const source = ['note "before"', 'param k : positive', 'integral Z = exp(-k*x^2/2) d(x)', chainIntegral('Big', 400), 'expect Z = sqrt(2*pi/k)', 'note "after"'].join('\n');
+  const res = await author.stream('/api/evaluate', { source });
+  assert.equal(res.status, 200);
+  const text = await res.text();
+  const starts = [...text.matchAll(/^event: progress\ndata: (.*)$/gm)].map((m) => JSON.parse(m[1]!).index);
+  assert.deepEqual(starts, [0, 1, 2, 3, 4, 5], 'each statement started once (the finished ones were not run again)');
+  const report = JSON.parse(/^event: report\ndata: (.*)$/m.exec(text)![1]!);
+  const [before, k, z, big, expect, afterNote] = report.statements;
+  assert.match(big.error.message, /needed more memory than the evaluation limit of 24 MB/);
+  // Z's value was rebuilt in the new worker for the expect after it, without a new start
+  for (const s of [before, k, z, expect, afterNote]) assert.equal(s.status, 'ok', JSON.stringify(s.error));
+});

@@ -1,4 +1,5 @@
-// Repeated failed sign-ins lock the account; the mailed link unlocks it once.
+// Repeated failed sign-ins lock the account for client addresses it never signed in from
+// (back-off, see server/auth/throttle.ts); the mailed link unlocks it once.
 import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
 import { LIMITS } from '../../shared/api.js';

@@ -34,7 +34,8 @@ const CASES: Case[] = [
   { name: 'PATCH /api/groups/:id', method: 'PATCH', path: (f) => `/api/groups/${f.groupId}`, body: () => ({ name: 'Renamed' }), expect: ownerOnly(200) },
   { name: 'DELETE /api/groups/:id', method: 'DELETE', path: (f) => `/api/groups/${f.groupId}`, expect: ownerOnly(204) },
   { name: 'GET members', method: 'GET', path: (f) => `/api/groups/${f.groupId}/members`, expect: read },
-  { name: 'POST members', method: 'POST', path: (f) => `/api/groups/${f.groupId}/members`, body: () => ({ email: 'extra@matrix.test', role: 'reader' }), expect: ownerOnly(201) },
+  // Adding a member sends an invitation (202): nobody joins without accepting.
+  { name: 'POST members', method: 'POST', path: (f) => `/api/groups/${f.groupId}/members`, body: () => ({ email: 'extra@matrix.test', role: 'reader' }), expect: ownerOnly(202) },
   { name: 'PATCH member', method: 'PATCH', path: (f) => `/api/groups/${f.groupId}/members/${f.ids['reader']}`, body: () => ({ role: 'reviewer' }), expect: ownerOnly(200) },
   { name: 'DELETE member', method: 'DELETE', path: (f) => `/api/groups/${f.groupId}/members/${f.ids['reader']}`, expect: ownerOnly(204) },
   { name: 'GET worksheets', method: 'GET', path: (f) => `/api/groups/${f.groupId}/worksheets`, expect: read },
@@ -93,9 +94,11 @@ async function freshFixture(): Promise<Fixture> {
   const group = await owner.post('/api/groups', { name: 'Matrix group' });
   assert.equal(group.status, 201);
   const groupId = group.json.group.id;
+  // Members join by invitation; the fixture puts them in directly.
   for (const role of ['author', 'reviewer', 'reader'] as const) {
-    const added = await owner.post(`/api/groups/${groupId}/members`, { email: DEMO[role], role });
-    assert.equal(added.status, 201, added.text);
+    await server.running.sequelize.query('INSERT INTO memberships (group_id, user_id, role, created_at, updated_at) VALUES ($1, $2, $3, now(), now())', {
+      bind: [groupId, ids[role], role],
+    });
   }
   const sheet = await owner.post(`/api/groups/${groupId}/worksheets`, { title: 'Matrix sheet', source: 'param k : positive\nnote "v1"' });
   assert.equal(sheet.status, 201);

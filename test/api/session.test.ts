@@ -37,10 +37,14 @@ test('sign-in gives a new session id (no session fixation)', async () => {
   const server = await startServerProcess(db.url, port);
   const client = new ApiClient(`http://127.0.0.1:${port}`);
   await client.get('/api/health');
-  const before = client.cookies.get('sheetwise.sid');
-  assert.ok(before, 'an anonymous session exists before sign-in (it holds the XSRF token)');
+  assert.equal(client.cookies.get('sheetwise.sid'), undefined, 'no session before sign-in (the XSRF token is a signed cookie)');
+  assert.ok(client.cookies.get('XSRF-TOKEN'));
+  // A session id planted before sign-in (by someone else) is not the one signed in.
+  const planted = 's%3Aplanted-session-id.c2lnbmF0dXJl';
+  client.cookies.set('sheetwise.sid', planted);
   await client.login(DEMO.reader);
-  assert.notEqual(client.cookies.get('sheetwise.sid'), before);
+  assert.ok(client.cookies.get('sheetwise.sid'));
+  assert.notEqual(client.cookies.get('sheetwise.sid'), planted);
   await server.stop();
   await db.drop();
 });

@@ -194,6 +194,27 @@ test('the owner withdraws an invitation; its link then says so', async () => {
   await context.close();
 });
 
+test('an invitation opened by another signed-in account says whom it is for and offers to sign out', async () => {
+  const invited = 'someone.else@lab.test';
+  const owner = new ApiClient(server.url);
+  await owner.login(DEMO.owner);
+  const groupId = (await owner.get('/api/groups')).json.groups[0].id;
+  assert.equal((await owner.post(`/api/groups/${groupId}/invitations`, { email: invited, role: 'reader' })).status, 201);
+  const link = linkIn(await mailTo(invited, /invites you/), 'invitations');
+  const context = await browser.newContext({ viewport: { width: 1366, height: 900 } });
+  const page = await context.newPage();
+  await signIn(page, server.url, DEMO.reviewer);
+  await page.getByTestId('account-menu').waitFor();
+  await page.goto(link);
+  await page.getByTestId('invitation-other-account').filter({ hasText: `This invitation is for ${invited}` }).waitFor();
+  assert.equal(await page.getByTestId('accept-invitation').count(), 0, 'no way to accept for another address');
+  await screenshot(page, 'invitation-other-account');
+  await page.getByTestId('invitation-sign-out').click();
+  // Signed out, the page asks for the invited address's new account.
+  await page.getByTestId('invitation-display-name').waitFor();
+  await context.close();
+});
+
 test('forgot password: the mailed link sets a new password, which then signs in', async () => {
   const context = await browser.newContext({ viewport: { width: 1366, height: 900 } });
   const page = await context.newPage();

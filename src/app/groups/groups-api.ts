@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable, map } from 'rxjs';
-import type { AddMemberBody, GroupRole, GroupSummaryDto, MemberDto } from '@shared/api';
+import type { GroupRole, GroupSummaryDto, MemberDto } from '@shared/api';
 
 /** Groups and their members: /api/groups. */
 @Injectable({ providedIn: 'root' })
@@ -34,12 +34,6 @@ export class GroupsApi {
     return this.http
       .get<{ members: MemberDto[] }>(`/api/groups/${groupId}/members`)
       .pipe(map((r) => r.members));
-  }
-
-  addMember(groupId: number, body: AddMemberBody): Observable<MemberDto> {
-    return this.http
-      .post<{ member: MemberDto }>(`/api/groups/${groupId}/members`, body)
-      .pipe(map((r) => r.member));
   }
 
   changeRole(groupId: number, userId: number, role: GroupRole): Observable<MemberDto> {

@@ -39,7 +39,7 @@ describe('ResetPassword', () => {
 
   it('refuses a short password and two different ones before sending anything', async () => {
     const short = await submit('short', 'short');
-    expect(short.el.textContent).toContain('Use a password of at least 10 characters.');
+    expect(short.el.textContent).toContain('Use a password of at least 12 characters.');
     const differ = await submit('a-long-new-password', 'a-long-new-passwort');
     expect(differ.el.textContent).toContain('The two passwords differ.');
     http.expectNone('/api/auth/password-reset/confirm');

@@ -63,23 +63,11 @@ describe('GroupMembers', () => {
     expect(el.querySelector('[data-testid="pending-invitation"]')).toBeNull();
   });
 
-  it('lets the owner add a member by e-mail with a role', async () => {
-    const { fixture, el } = await open('owner');
+  it('has no way to add an account without an invitation', async () => {
+    const { el } = await open('owner');
     expect(el.querySelectorAll('[data-testid="member-role"]').length).toBe(2);
-    const email = el.querySelector<HTMLInputElement>('input[name="memberEmail"]')!;
-    email.value = 'Reviewer@Demo.Sheetwise.test';
-    email.dispatchEvent(new Event('input'));
-    el.querySelector<HTMLButtonElement>('[data-testid="add-member"]')!.click();
-    await fixture.whenStable();
-    const req = http.expectOne('/api/groups/5/members');
-    expect(req.request.method).toBe('POST');
-    expect(req.request.body).toEqual({ email: 'reviewer@demo.sheetwise.test', role: 'author' });
-    req.flush(
-      { member: { userId: 3, email: 'reviewer@demo.sheetwise.test', displayName: 'Rae', role: 'author' } },
-      { status: 201, statusText: 'Created' },
-    );
-    await fixture.whenStable();
-    expect(el.querySelectorAll('[data-testid="member-row"]').length).toBe(3);
+    expect(el.querySelector('[data-testid="add-member-form"]')).toBeNull();
+    expect(el.querySelector('[data-testid="invite-form"]')).not.toBeNull();
   });
 
   it('sends a role change as PATCH', async () => {

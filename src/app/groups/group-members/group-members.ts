@@ -9,7 +9,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { catchError, of, switchMap, tap } from 'rxjs';
-import { GROUP_ROLES, addMemberBody, roleCan, type GroupRole, type MemberDto } from '@shared/api';
+import { GROUP_ROLES, roleCan, type GroupRole, type MemberDto } from '@shared/api';
 import { INVITATION_DAYS, inviteBody, type InvitationDto } from '@shared/collaboration';
 import { applySchemaIssues, fieldMessage } from '../../core/forms/schema-errors';
 import { apiErrorDetails, apiErrorMessage } from '../../core/http/api-error';
@@ -22,8 +22,9 @@ import { Confirmer } from '../../core/dialogs/confirmer';
 export { ROLE_DESCRIPTIONS };
 
 /**
- * The members of a group; the owner invites people by e-mail (a link by mail), adds
- * existing accounts directly, changes roles, removes members and withdraws invitations.
+ * The members of a group; the owner invites people by e-mail (a link by mail, for that
+ * address only: nobody joins without accepting, with or without an account), changes
+ * roles, removes members and withdraws invitations.
  */
 @Component({
   selector: 'app-group-members',
@@ -63,7 +64,6 @@ export class GroupMembers {
   protected readonly loading = signal(true);
   protected readonly error = signal<string | null>(null);
   protected readonly busyUser = signal<number | null>(null);
-  protected readonly adding = signal(false);
   private readonly reload = signal(0);
 
   protected readonly invitationDays = INVITATION_DAYS;
@@ -75,11 +75,6 @@ export class GroupMembers {
   protected readonly invitationColumns = ['email', 'role', 'invitedBy', 'expiresAt', 'actions'];
 
   protected readonly inviteForm = inject(NonNullableFormBuilder).group({
-    email: ['', Validators.required],
-    role: ['author' as GroupRole, Validators.required],
-  });
-
-  protected readonly addForm = inject(NonNullableFormBuilder).group({
     email: ['', Validators.required],
     role: ['author' as GroupRole, Validators.required],
   });
@@ -129,27 +124,6 @@ export class GroupMembers {
 
   protected retry(): void {
     this.reload.update((n) => n + 1);
-  }
-
-  protected add(directive?: FormGroupDirective): void {
-    const parsed = addMemberBody.safeParse(this.addForm.getRawValue());
-    if (!parsed.success) {
-      applySchemaIssues(this.addForm, parsed.error.issues);
-      return;
-    }
-    this.adding.set(true);
-    this.api.addMember(this.groupId(), parsed.data).subscribe({
-      next: (member) => {
-        this.adding.set(false);
-        this.members.update((list) => [...list.filter((m) => m.userId !== member.userId), member]);
-        this.resetForm(this.addForm, directive, { email: '', role: parsed.data.role });
-        this.notifier.info(`${member.displayName} is now ${this.article(member.role)} ${member.role}.`);
-      },
-      error: (err: unknown) => {
-        this.adding.set(false);
-        this.notifier.error(err);
-      },
-    });
   }
 
   protected invite(directive?: FormGroupDirective): void {

@@ -76,7 +76,7 @@ describe('InvitationPage', () => {
     el.querySelector<HTMLButtonElement>('[data-testid="accept-invitation"]')!.click();
     await fixture.whenStable();
     http.expectNone('/api/invitations/tok-123/accept');
-    expect(el.textContent).toContain('Use a password of at least 10 characters.');
+    expect(el.textContent).toContain('Use a password of at least 12 characters.');
 
     type(el, 'invitation-password', 'a-long-enough-password');
     el.querySelector<HTMLButtonElement>('[data-testid="accept-invitation"]')!.click();
@@ -111,20 +111,28 @@ describe('InvitationPage', () => {
     expect(el.querySelector('a[href="/forgot-password"]')).not.toBeNull();
   });
 
-  it('offers a single Accept button to a signed-in person and sends nothing else', async () => {
-    const me: UserDto = { id: 4, email: 'someone@lab.test', displayName: 'Some One', siteRole: 'user', disabled: false };
-    const { fixture, el } = await open({ invitation: preview }, me);
+  it('offers a single Accept button to the invited address, signed in, and sends nothing else', async () => {
+    const { fixture, el } = await open({ invitation: preview }, newUser);
     expect(el.querySelector('[data-testid="invitation-password"]')).toBeNull();
-    expect(el.textContent).toContain('You are signed in as Some One');
-    expect(el.textContent).toContain('The invitation was sent to new.person@lab.test');
+    expect(el.textContent).toContain('You are signed in as New Person');
     el.querySelector<HTMLButtonElement>('[data-testid="accept-invitation"]')!.click();
     await fixture.whenStable();
     const req = http.expectOne('/api/invitations/tok-123/accept');
     expect(req.request.body).toEqual({});
-    req.flush({ user: me, groupId: 7 });
-    http.expectOne('/api/auth/me').flush({ user: me });
+    req.flush({ user: newUser, groupId: 7 });
+    http.expectOne('/api/auth/me').flush({ user: newUser });
     await fixture.whenStable();
     expect(navigate).toHaveBeenCalledWith(['/groups', 7]);
+  });
+
+  it('tells another signed-in account that the invitation is not theirs, and offers to sign out', async () => {
+    const me: UserDto = { id: 4, email: 'someone@lab.test', displayName: 'Some One', siteRole: 'user', disabled: false };
+    const { el } = await open({ invitation: preview }, me);
+    const note = el.querySelector('[data-testid="invitation-other-account"]')?.textContent ?? '';
+    expect(note).toContain('This invitation is for new.person@lab.test, and you are signed in as someone@lab.test.');
+    expect(el.querySelector('[data-testid="accept-invitation"]')).toBeNull();
+    expect(el.querySelector('[data-testid="invitation-sign-out"]')).not.toBeNull();
+    http.expectNone('/api/invitations/tok-123/accept');
   });
 
   it.each([

@@ -64,7 +64,7 @@ export class InvitationPage {
   protected readonly otherAccount = computed(() => {
     const user = this.user();
     const invitation = this.invitation();
-    return !!user && !!invitation && user.email !== invitation.email;
+    return !!user && !!invitation && user.email.trim().toLowerCase() !== invitation.email.trim().toLowerCase();
   });
   protected readonly heading = computed(() => {
     const invitation = this.invitation();
@@ -106,9 +106,21 @@ export class InvitationPage {
       });
   }
 
+  /** Signed in as another account than the invited one: sign out here, and the form asks for the invited account. */
+  protected signOut(): void {
+    this.submitting.set(true);
+    this.auth.signOut().subscribe({
+      next: () => this.submitting.set(false),
+      error: (err: unknown) => {
+        this.submitting.set(false);
+        this.error.set(apiErrorMessage(err));
+      },
+    });
+  }
+
   protected accept(): void {
     const invitation = this.invitation();
-    if (!invitation || this.submitting()) return;
+    if (!invitation || this.submitting() || this.otherAccount()) return;
     const raw = this.form.getRawValue();
     let body: { displayName?: string; password?: string } = {};
     if (this.mode() !== 'signed-in') {
