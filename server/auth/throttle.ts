@@ -70,7 +70,7 @@ export function waitSeconds(scope: Scope, failures: number, free: number): numbe
 export async function clearAccountCounters(sequelize: Sequelize, email: string, transaction?: Transaction): Promise<void> {
   const account = normaliseEmail(email);
   await sequelize.query(
-    `DELETE FROM sign_in_throttle WHERE (scope = 'account' AND key = $1) OR (scope = 'pair' AND left(key, length($1) + 1) = $1 || '|')`,
+    `UPDATE sign_in_throttle SET failures = 0 WHERE (scope = 'account' AND key = $1) OR (scope = 'pair' AND left(key, length($1) + 1) = $1 || '|')`,
     { bind: [account], transaction },
   );
 }
@@ -114,7 +114,7 @@ export class SignInThrottle {
         { bind: [scope, key], type: QueryTypes.INSERT },
       );
     }
-    return this.sequelize.transaction(async (transaction) => {
+    return withDeadlockRetry(() => this.sequelize.transaction(async (transaction) => {
       const rows = await this.sequelize.query<{ scope: Scope; key: string; failures: number; idle: number }>(
         `SELECT scope, key, failures, EXTRACT(EPOCH FROM (now() - last_failed_at))::float8 AS idle
            FROM sign_in_throttle WHERE (scope, key) IN (($1, $2), ($3, $4), ($5, $6))
@@ -142,7 +142,7 @@ export class SignInThrottle {
         });
       }
       return { ok: true as const, accountFailures: next.get('account') ?? 1 };
-    });
+    }));
   }
 
   /**
@@ -155,12 +155,13 @@ export class SignInThrottle {
   async succeeded(email: string, address: string): Promise<boolean> {
     const [account, addr, pair] = this.keys(email, address);
     await this.sequelize.query(`UPDATE sign_in_throttle SET failures = GREATEST(failures - 1, 0) WHERE scope = 'address' AND key = $1`, { bind: [addr[1]] });
-    await this.sequelize.query(`DELETE FROM sign_in_throttle WHERE scope = 'pair' AND key = $1`, { bind: [pair[1]] });
-    const ended = await this.sequelize.query(`DELETE FROM sign_in_throttle WHERE scope = 'account' AND key = $1 AND failures <= $2`, {
+    // Counters are set to 0 rather than deleted: a row that vanishes and comes back would be
+    // locked out of order by a concurrent reserve(), which can deadlock under a storm of sign-ins.
+    await this.sequelize.query(`UPDATE sign_in_throttle SET failures = 0 WHERE scope = 'pair' AND key = $1`, { bind: [pair[1]] });
+    const [, ended] = await this.sequelize.query(`UPDATE sign_in_throttle SET failures = 0 WHERE scope = 'account' AND key = $1 AND failures <= $2`, {
       bind: [account[1], this.limits.accountFree],
-      type: QueryTypes.BULKDELETE,
-    });
-    if (ended) return true;
+    }) as [unknown, { rowCount?: number } | number];
+    if ((typeof ended === 'number' ? ended : ended?.rowCount ?? 0) > 0) return true;
     await this.sequelize.query(`UPDATE sign_in_throttle SET failures = GREATEST(failures - 1, 0) WHERE scope = 'account' AND key = $1`, { bind: [account[1]] });
     return false;
   }
@@ -189,5 +190,22 @@ export class SignInThrottle {
   /** Old rows go (idle for longer than any counter remembers). */
   async prune(): Promise<void> {
     await this.sequelize.query(`DELETE FROM sign_in_throttle WHERE last_failed_at < now() - interval '25 hours'`);
+  }
+}
+
+/**
+ * Runs a transaction again when PostgreSQL ends it as a deadlock victim (40P01) or a
+ * serialization failure (40001): the common practice for row-locking transactions, so a
+ * storm of sign-ins on one address never turns into a 500.
+ */
+async function withDeadlockRetry<T>(run: () => Promise<T>, attempts = 5): Promise<T> {
+  for (let k = 1; ; k++) {
+    try {
+      return await run();
+    } catch (e) {
+      const code = (e as { parent?: { code?: string }; original?: { code?: string } }).parent?.code ?? (e as { original?: { code?: string } }).original?.code;
+      if (k >= attempts || (code !== '40P01' && code !== '40001')) throw e;
+      await new Promise((r) => setTimeout(r, 5 + Math.random() * 20 * k));
+    }
   }
 }

@@ -96,7 +96,8 @@ test('the unlock link clears the limiter for the account: no 429 after unlocking
   // Five misses from the owner's own address, five more from elsewhere: locked and held back.
   for (let n = 0; n < 5; n++) assert.equal((await login(DEMO.author, `miss-${n}-typed-badly`, '192.0.2.30')).status, 401);
   for (let n = 0; n < 5; n++) await login(DEMO.author, `other-${n}-typed-badly`, `198.51.100.${200 + n}`);
-  assert.equal((await login(DEMO.author, 'sheetwise-demo', '192.0.2.30')).status, 429);
+  // refused: 429 while the address's back-off lasts (1 s after the fifth miss), 401 "locked" once it has run out on a slow machine
+  assert.ok([401, 429].includes((await login(DEMO.author, 'sheetwise-demo', '192.0.2.30')).status));
   const token = await unlockTokenFor(DEMO.author);
   const anon = new ApiClient(server.url);
   assert.equal((await anon.post('/api/auth/unlock', { token })).status, 200);
@@ -109,4 +110,17 @@ test('parallel guesses cannot slip past the count', async () => {
   const results = await Promise.all(Array.from({ length: 20 }, (_, n) => login('parallel@lab.test', `parallel-${n}`, '198.51.100.250')));
   const checked = results.filter((r) => r.status === 401).length;
   assert.ok(checked <= 6, `${checked} guesses were checked`);
+});
+
+test('a storm of correct sign-ins of two accounts from one address never deadlocks into a 500 (the counters are locked in one order and never deleted)', async () => {
+  for (let round = 0; round < 3; round++) {
+    const results = await Promise.all(
+      Array.from({ length: 40 }, (_, n) => login(n % 2 ? DEMO.author : DEMO.owner, 'sheetwise-demo', '203.0.113.77')),
+    );
+    // every try counts until its password is checked, so of 40 at once some may be held back
+    // (429, or 401 "locked" from an address the account never used); none may fail with a 500
+    const statuses = results.map((r) => r.status);
+    assert.ok(statuses.every((st) => st < 500), `round ${round}: ${statuses.join(',')}`);
+    assert.ok(statuses.includes(200), `round ${round}: ${statuses.join(',')}`);
+  }
 });
