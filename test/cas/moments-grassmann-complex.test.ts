@@ -158,3 +158,31 @@ test('a mixed real and Grassmann Gaussian is the product of the real Gaussian an
   assert.equal(r.statements[2]!.status, 'error');
   assert.match(r.statements[2]!.error!.message, /mixes Grassmann and real variables/);
 });
+
+test('a three-variable moment <x1 x2 x3^2> against mpmath quadrature (tensor Gauss-Legendre on a box where the weight has fallen below e^-60)', () => {
+  const r = run('integral Z = exp(-(3*x1^2 + 2*x1*x2 + 4*x2^2 + 2*x2*x3 + 5*x3^2)/2) d(x1, x2, x3)\nmoment M = x1*x2*x3^2 under Z\nmoment N = x1^2*x3^2 under Z');
+  const got = [r.statements[1]!, r.statements[2]!].map((s) => s.result!.value!.re);
+  const want = python(String.raw`
+import json, math
+import mpmath as mp
+mp.mp.dps = 20
+A = [[3, 1, 0], [1, 4, 1], [0, 1, 5]]
+gl = mp.calculus.quadrature.GaussLegendre(mp.mp)
+nodes = gl.calc_nodes(6, mp.mp.prec)  # degree 6: 3*2^5 = 96 nodes on [-1, 1]
+L = 7.0
+xs = [(float(x) * L, float(w) * L) for x, w in nodes]
+def weight(p):
+    s = 0.0
+    for i in range(3):
+        for j in range(3):
+            s += A[i][j] * p[i] * p[j]
+    return math.exp(-s / 2)
+z = m = n = 0.0
+for a, wa in xs:
+    for b, wb in xs:
+        for c, wc in xs:
+            w = wa * wb * wc * weight((a, b, c))
+            z += w; m += w * a * b * c * c; n += w * a * a * c * c
+print(json.dumps([m / z, n / z]))`, null) as number[];
+  got.forEach((g, k) => assert.ok(Math.abs(g - want[k]!) < 1e-9 * Math.max(1, Math.abs(want[k]!)), `${g} vs ${want[k]}`));
+});
