@@ -11,7 +11,7 @@
  * Example: moment X4 = x^4 under Z with Z = integral of exp(-a x^2/2) gives 3/a^2.
  */
 import type { StatementReport } from '../../shared/evaluation.js';
-import type { Statement } from '../lang/ast.js';
+import type { Expr, Statement } from '../lang/ast.js';
 import { formulaOf } from '../expr/print.js';
 import { ratExpr } from '../expr/fromExact.js';
 import { freeNames } from '../expr/names.js';
@@ -20,7 +20,7 @@ import { polyFromTerms, variables, type Poly } from '../exact/poly.js';
 import { inverseRat } from '../exact/inverse.js';
 import { exactFormOf } from '../verdicts/exactForm.js';
 import { checkDeadline } from '../deadline.js';
-import { blankReport, StatementFailure, type Context } from './context.js';
+import { blankReport, StatementFailure, type Context, type GaussianInfo } from './context.js';
 import type { Point } from '../domains/sample.js';
 
 /** Degree and size limits that keep the number of pairings in reach of the statement time limit. */
@@ -54,35 +54,26 @@ function isserlis(C: RatFunc[][]): (j: number[]) => RatFunc {
 const binomial = (n: number, k: number) => { let b = 1; for (let i = 1; i <= k; i++) b = (b * (n - k + i)) / i; return b; };
 const doubleFactorial = (n: number) => { let f = 1; for (let k = n; k > 1; k -= 2) f *= k; return f; };
 
-export function evaluateMoment(s: Extract<Statement, { kind: 'moment' }>, ctx: Context): StatementReport {
-  const line = s.span.start.line;
-  const name = s.name.name;
-  const report = blankReport(line, 'moment', name);
-  if (ctx.params.has(name) || ctx.results.has(name)) throw new StatementFailure(`The name ${name} is already in use; give the moment a new name.`, line, s.name.span.start.column);
-  const r = ctx.results.get(s.target.name);
-  if (!r) throw new StatementFailure(`There is no result named ${s.target.name} above this line.`, line, s.target.span.start.column);
-  const g = r.gaussian;
-  if (!g) throw new StatementFailure(`${s.target.name} is not a Gaussian integral over real variables; a moment is taken under the weight of one.`, line, s.target.span.start.column);
-  if (g.convergence === 'divergent') throw new StatementFailure(`${s.target.name} diverges, so averages under its weight do not exist.`, line, s.target.span.start.column);
+/**
+ * <P> under the normalised weight of a Gaussian result, exactly: the mean A^-1 J, the
+ * covariance A^-1, the pairings summed, and the average as a rational function. `fail`
+ * says why not (a weight that is not rational, a P that is not a polynomial, singular A).
+ */
+export function gaussianAverage(g: GaussianInfo, expr: Expr, fail: (message: string) => never): { result: RatFunc; mu: RatFunc[]; C: RatFunc[][]; pairings: number } {
   const vars = g.vars;
-  for (const [n, span] of freeNames(s.expr)) {
-    if (!vars.includes(n) && !ctx.params.has(n)) throw new StatementFailure(`"${n}" is neither an integration variable of ${s.target.name} (${vars.join(', ')}) nor a declared parameter.`, line, span?.start.column ?? 1);
-  }
   const form = exactFormOf(g.form);
-  if (!form) throw new StatementFailure(`The weight of ${s.target.name} is not rational in the parameters, so its moments are not computed exactly; write A, J and c with rational entries.`, line, s.span.start.column);
-  const P = fromExpr(s.expr);
-  if (!P || variables(P.den).some((v) => vars.includes(v))) throw new StatementFailure(`The averaged quantity must be a polynomial in ${vars.join(', ')} (with coefficients in the parameters).`, line, s.span.start.column);
-  const C = inverseRat(form.A);
-  if (!C) throw new StatementFailure(`A of ${s.target.name} is singular, so the weight has no covariance.`, line, s.span.start.column);
-  const mu = C.map((row) => row.reduce((acc, x, j) => rfAdd(acc, rfMul(x, form.J[j]!)), RF0));
-  const moment = isserlis(C);
-
-  // <P(mu + y)>: each monomial c * prod x_i^k_i expands binomially in the shift
+  if (!form) fail('The Gaussian weight is not rational in the parameters, so its moments are not computed exactly; write A, J and c with rational entries.');
+  const P = fromExpr(expr);
+  if (!P || variables(P.den).some((v) => vars.includes(v))) fail(`The averaged quantity must be a polynomial in ${vars.join(', ')} (with coefficients in the parameters).`);
+  const C = inverseRat(form!.A);
+  if (!C) fail('A is singular, so the weight has no covariance.');
+  const mu = C!.map((row) => row.reduce((acc, x, j) => rfAdd(acc, rfMul(x, form!.J[j]!)), RF0));
+  const moment = isserlis(C!);
   let total = RF0;
   let pairings = 0;
-  for (const term of P.num.terms.values()) {
+  for (const term of P!.num.terms.values()) {
     const k = vars.map((v) => term.m.find(([w]) => w === v)?.[1] ?? 0);
-    if (k.reduce((a, b) => a + b, 0) > MAX_DEGREE) throw new StatementFailure(`The polynomial has degree above ${MAX_DEGREE} in the variables; split it into smaller moments.`, line, s.span.start.column);
+    if (k.reduce((a, b) => a + b, 0) > MAX_DEGREE) fail(`The polynomial has degree above ${MAX_DEGREE} in the variables; split it into smaller moments.`);
     const coeff: Poly = polyFromTerms([{ m: term.m.filter(([w]) => !vars.includes(w)), c: term.c }]);
     const choose = (i: number, j: number[]): void => {
       if (i === vars.length) {
@@ -102,7 +93,25 @@ export function evaluateMoment(s: Extract<Statement, { kind: 'moment' }>, ctx: C
     };
     choose(0, []);
   }
-  const result = rfDiv(total, rfPoly(P.den));
+  return { result: rfDiv(total, rfPoly(P!.den)), mu, C: C!, pairings };
+}
+
+export function evaluateMoment(s: Extract<Statement, { kind: 'moment' }>, ctx: Context): StatementReport {
+  const line = s.span.start.line;
+  const name = s.name.name;
+  const report = blankReport(line, 'moment', name);
+  if (ctx.params.has(name) || ctx.results.has(name)) throw new StatementFailure(`The name ${name} is already in use; give the moment a new name.`, line, s.name.span.start.column);
+  const r = ctx.results.get(s.target.name);
+  if (!r) throw new StatementFailure(`There is no result named ${s.target.name} above this line.`, line, s.target.span.start.column);
+  const g = r.gaussian;
+  if (!g) throw new StatementFailure(`${s.target.name} is not a Gaussian integral over real variables; a moment is taken under the weight of one.`, line, s.target.span.start.column);
+  if (g.convergence === 'divergent') throw new StatementFailure(`${s.target.name} diverges, so averages under its weight do not exist.`, line, s.target.span.start.column);
+  const vars = g.vars;
+  for (const [n, span] of freeNames(s.expr)) {
+    if (!vars.includes(n) && !ctx.params.has(n)) throw new StatementFailure(`"${n}" is neither an integration variable of ${s.target.name} (${vars.join(', ')}) nor a declared parameter.`, line, span?.start.column ?? 1);
+  }
+  const avg = gaussianAverage(g, s.expr, (msg) => { throw new StatementFailure(msg, line, s.span.start.column); });
+  const { result, mu, C, pairings } = avg;
   const expr = ratExpr(result, true);
   const params = [...ctx.params.keys()].filter((p) => variables(result.num).includes(p) || variables(result.den).includes(p));
   const valueAt = (p: Point) => {

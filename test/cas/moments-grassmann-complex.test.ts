@@ -186,3 +186,20 @@ for a, wa in xs:
 print(json.dumps([m / z, n / z]))`, null) as number[];
   got.forEach((g, k) => assert.ok(Math.abs(g - want[k]!) < 1e-9 * Math.max(1, Math.abs(want[k]!)), `${g} vs ${want[k]}`));
 });
+
+test('a polynomial before the exponential: integral of x^2 exp(-a x^2/2) = sqrt(2 pi/a)/a and of (x^4 + 1) exp(...) (G&R 3.461.2, from memory), and x*y with a source in two variables — mpmath quadrature', () => {
+  const r = run('param a : positive\nparam J : real\nintegral M = x^2*exp(-a*x^2/2) d(x)\nintegral M4 = (x^4 + 1)*exp(-a*x^2/2) d(x)\nintegral N = x*y*exp(-(2*x^2 + 2*x*y + 3*y^2)/2 + J*x) d(x, y)');
+  const [m, m4, n] = [r.statements[2]!, r.statements[3]!, r.statements[4]!];
+  for (const s of [m, m4, n]) { assert.equal(s.status, 'ok'); assert.equal(s.convergence, 'absolute'); assert.ok(s.steps.some((x) => x.kind === 'moment')); }
+  assert.equal(m.result!.text, 'sqrt(2*pi/a)/a');
+  const want = python(String.raw`
+import json
+import mpmath as mp
+mp.mp.dps = 20
+a, J = mp.mpf('1.3'), mp.mpf('0.4')
+m = mp.quad(lambda x: x**2*mp.exp(-a*x**2/2), [-mp.inf, 0, mp.inf])
+m4 = mp.quad(lambda x: (x**4 + 1)*mp.exp(-a*x**2/2), [-mp.inf, 0, mp.inf])
+n = mp.quad(lambda x, y: x*y*mp.exp(-(2*x**2 + 2*x*y + 3*y**2)/2 + J*x), [-9, 0, 9], [-9, 0, 9])
+print(json.dumps([float(m), float(m4), float(n)]))`, null) as number[];
+  [m, m4, n].forEach((s, k) => assert.ok(Math.abs(at(s.result!.text, { a: 1.3, J: 0.4 }).re / want[k]! - 1) < 1e-9, `${s.result!.text}: ${want[k]}`));
+});
