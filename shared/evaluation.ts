@@ -268,6 +268,8 @@ export const step = z.discriminatedUnion('kind', [
     result: formula,
     /** Where the average exists: the convergence verdict of the weight it is taken under. */
     convergence: z.enum(CONVERGENCE_VERDICTS),
+    /** Under a Berezin integral: `covariance` holds the two-point function <theta_i theta_j>, found by direct expansion. */
+    grassmann: z.boolean().optional(),
   }),
   z.object({
     /** derivative NAME = EXPR by p: exact by the chain rule, log Z differentiated through its pivots. */

@@ -142,7 +142,7 @@ export function evaluateBerezin(s: IntegralStatement, ctx: Context, real: (s: In
     report.proof = 'proved';
     report.result = { ...formulaOf(expr), value: params.length ? null : valueAt(new Map()) };
     report.steps.push(...steps);
-    ctx.results.set(name, { line, unavailable: null, expr, params, valueAt, definition: expr });
+    ctx.results.set(name, { line, unavailable: null, expr, params, valueAt, definition: expr, berezin: { vars: odd.map((v) => v.name), A } });
     return report;
   }
   // the bosonic part through the real route, then times the Pfaffian

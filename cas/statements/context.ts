@@ -4,6 +4,7 @@ import type { Expr } from '../lang/ast.js';
 import type { Point } from '../domains/sample.js';
 import type { C } from '../numeric/cmatrix.js';
 import type { QuadraticForm } from '../gaussian/form.js';
+import type { RatFunc } from '../exact/ratfunc.js';
 
 /** What a Gaussian result keeps for rotate, continue and verify: the integrand as written and its quadratic form. */
 export interface GaussianInfo {
@@ -30,6 +31,8 @@ export interface ResultInfo {
   gaussian?: GaussianInfo;
   /** A derived quantity's definition as written (let), for routes that read its shape. */
   definition?: Expr;
+  /** A Berezin integral's Grassmann variables (in the order written) and its antisymmetric A: moments under it. */
+  berezin?: { vars: string[]; A: RatFunc[][] };
 }
 
 /** A result that has a value function: what resultNamed hands to the statements that use one. */

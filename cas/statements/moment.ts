@@ -18,6 +18,7 @@ import { freeNames } from '../expr/names.js';
 import { fromExpr, rfAdd, rfConst, rfDiv, rfEvalComplex, rfIsZero, rfMul, rfPoly, rfPow, RF0, RF1, type RatFunc } from '../exact/ratfunc.js';
 import { polyFromTerms, variables, type Poly } from '../exact/poly.js';
 import { inverseRat } from '../exact/inverse.js';
+import { berezin, gAdd, gExpEven, gMul, gScalar, gVariable, quadraticOf, type GElement } from '../exact/grassmann.js';
 import { exactFormOf } from '../verdicts/exactForm.js';
 import { checkDeadline } from '../deadline.js';
 import { blankReport, StatementFailure, type Context, type GaussianInfo } from './context.js';
@@ -103,8 +104,9 @@ export function evaluateMoment(s: Extract<Statement, { kind: 'moment' }>, ctx: C
   if (ctx.params.has(name) || ctx.results.has(name)) throw new StatementFailure(`The name ${name} is already in use; give the moment a new name.`, line, s.name.span.start.column);
   const r = ctx.results.get(s.target.name);
   if (!r) throw new StatementFailure(`There is no result named ${s.target.name} above this line.`, line, s.target.span.start.column);
+  if (r.berezin) return grassmannMoment(s, ctx, r.berezin, report);
   const g = r.gaussian;
-  if (!g) throw new StatementFailure(`${s.target.name} is not a Gaussian integral over real variables; a moment is taken under the weight of one.`, line, s.target.span.start.column);
+  if (!g) throw new StatementFailure(`${s.target.name} is not a Gaussian integral (over real or Grassmann variables); a moment is taken under the weight of one.`, line, s.target.span.start.column);
   if (g.convergence === 'divergent') throw new StatementFailure(`${s.target.name} diverges, so averages under its weight do not exist.`, line, s.target.span.start.column);
   const vars = g.vars;
   for (const [n, span] of freeNames(s.expr)) {
@@ -130,5 +132,65 @@ export function evaluateMoment(s: Extract<Statement, { kind: 'moment' }>, ctx: C
     pairings, result: formulaOf(expr), convergence: g.convergence,
   });
   ctx.results.set(name, { line, unavailable: null, expr, params, valueAt: (p) => { const v = valueAt(p); return v && { re: v.re, im: v.im }; }, definition: expr });
+  return report;
+}
+
+/**
+ * <P> under a Berezin integral: the integral of P exp(-1/2 theta^T A theta) over the same
+ * measure divided by the integral of exp(-1/2 theta^T A theta) (= Pf(A)), both by direct
+ * expansion in the Grassmann algebra (cas/exact/grassmann.ts), so every sign follows the
+ * products as written and the measure's order. The record lists the two-point function
+ * <theta_i theta_j> in place of a covariance.
+ */
+function grassmannMoment(s: Extract<Statement, { kind: 'moment' }>, ctx: Context, b: { vars: string[]; A: RatFunc[][] }, report: StatementReport): StatementReport {
+  const line = s.span.start.line;
+  const fail = (msg: string): never => { throw new StatementFailure(msg, line, s.span.start.column); };
+  const index = new Map(b.vars.map((v, k) => [v, k]));
+  const n = b.vars.length;
+  for (const [nm, span] of freeNames(s.expr)) {
+    if (!index.has(nm) && !ctx.params.has(nm)) throw new StatementFailure(`"${nm}" is neither a Grassmann variable of ${s.target.name} (${b.vars.join(', ')}) nor a declared parameter.`, line, span?.start.column ?? 1);
+  }
+  const expand = (e: Expr): GElement => {
+    switch (e.t) {
+      case 'name': if (index.has(e.name)) return gVariable(index.get(e.name)!); break;
+      case 'neg': return gAdd(new Map(), expand(e.a), -1);
+      case 'bin':
+        if (e.op === '+') return gAdd(expand(e.a), expand(e.b));
+        if (e.op === '-') return gAdd(expand(e.a), expand(e.b), -1);
+        if (e.op === '*') return gMul(expand(e.a), expand(e.b));
+        if (e.op === '/' && ![...freeNames(e.b).keys()].some((v) => index.has(v))) {
+          const d = fromExpr(e.b);
+          if (!d || rfIsZero(d)) fail('A divisor must be a nonzero rational expression in the parameters.');
+          return new Map([...expand(e.a)].map(([k, t]) => [k, { idx: t.idx, c: rfDiv(t.c, d!) }]));
+        }
+        if ([...freeNames(e).keys()].some((v) => index.has(v))) fail('Write products of Grassmann variables as products (t1*t2); powers and quotients of them are not averages of a polynomial.');
+        break;
+      default: break;
+    }
+    const c = fromExpr(e);
+    if (!c) fail('The averaged quantity must be a polynomial in the Grassmann variables with rational coefficients in the parameters.');
+    return gScalar(c!);
+  };
+  const weight = gExpEven(quadraticOf(b.A), n);
+  const z = berezin(weight, n);
+  if (rfIsZero(z)) fail(`The Pfaffian of ${s.target.name} vanishes, so averages under it are not defined.`);
+  const average = (P: GElement) => rfDiv(berezin(gMul(P, weight), n), z);
+  const result = average(expand(s.expr));
+  const G = b.vars.map((_, i) => b.vars.map((__, j) => (i === j ? RF0 : average(gMul(gVariable(i), gVariable(j))))));
+  const expr = ratExpr(result, true);
+  const params = [...ctx.params.keys()].filter((p) => variables(result.num).includes(p) || variables(result.den).includes(p));
+  const valueAt = (p: Point) => {
+    const v = rfEvalComplex(result, new Map([...p].map(([k2, w]) => [k2, { re: w.re, im: w.im }])));
+    return Number.isFinite(v.re) && Number.isFinite(v.im) ? { re: v.re, im: v.im } : null;
+  };
+  const degree = Math.max(0, ...[...expand(s.expr).values()].map((t) => t.idx.length));
+  report.proof = 'proved';
+  report.result = { ...formulaOf(expr), value: params.length ? null : valueAt(new Map()) };
+  report.steps.push({
+    kind: 'moment', name: s.name.name, under: s.target.name, polynomial: formulaOf(s.expr),
+    mean: b.vars.map(() => formulaOf(ratExpr(RF0))), covariance: G.map((row) => row.map((x) => formulaOf(ratExpr(x, true)))),
+    pairings: doubleFactorial(degree - 1), result: formulaOf(expr), convergence: 'absolute', grassmann: true,
+  });
+  ctx.results.set(s.name.name, { line, unavailable: null, expr, params, valueAt, definition: expr });
   return report;
 }

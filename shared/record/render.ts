@@ -327,6 +327,12 @@ function derived(s: StepOf<'derived'>): RenderedStep {
 }
 
 function moment(s: StepOf<'moment'>): RenderedStep {
+  if (s.grassmann) {
+    return {
+      text: `<${s.polynomial.text}> under ${s.under} = ${s.result.text}, by expanding in the Grassmann algebra and integrating by the Berezin rule in the order written, divided by the integral without it; the two-point function <theta_i theta_j> is ${matrixText(s.covariance)}; exact in rational arithmetic.`,
+      latex: `\\langle ${s.polynomial.latex} \\rangle_{${s.under}} = ${s.result.latex}`,
+    };
+  }
   const mean = s.mean.every((m) => m.text === '0') ? 'zero mean' : `mean A^-1 J = (${s.mean.map((m) => m.text).join(', ')})`;
   const where = s.convergence === 'absolute' ? '' : s.convergence === 'oscillatory' ? ' (the weight is oscillatory: the average is defined by the same i*epsilon limit as the integral)' : ` (the weight's convergence is ${s.convergence}: the average holds where it converges)`;
   return {

@@ -203,3 +203,22 @@ n = mp.quad(lambda x, y: x*y*mp.exp(-(2*x**2 + 2*x*y + 3*y**2)/2 + J*x), [-9, 0,
 print(json.dumps([float(m), float(m4), float(n)]))`, null) as number[];
   [m, m4, n].forEach((s, k) => assert.ok(Math.abs(at(s.result!.text, { a: 1.3, J: 0.4 }).re / want[k]! - 1) < 1e-9, `${s.result!.text}: ${want[k]}`));
 });
+
+test('averages under a Berezin integral: <t_i t_j> = (A^-1)_ij (mathjs inverse) and a four-point average, against the hand expansion; a fermion pair gives <p pb> = 1/M', () => {
+  const r = run('param a, w, b : positive\nintegral P = exp(-(a*t1*t2 + w*t3*t4 + b*t1*t3)) d(t1, t2, t3, t4 : grassmann)\nmoment T12 = t1*t2 under P\nmoment T24 = t2*t4 under P\nmoment T4 = t1*t2*t3*t4 under P\nintegral F = exp(-2*pb*p) d(pb, p : grassmann)\nmoment FF = p*pb under F');
+  const vals = { a: 2, w: 3, b: 5 };
+  const A = [[0, vals.a, vals.b, 0], [-vals.a, 0, 0, 0], [-vals.b, 0, 0, vals.w], [0, 0, -vals.w, 0]];
+  const inv = math.inv(A) as number[][];
+  const weight = gexp(quadratic([[vals.a, 0, 1], [vals.b, 0, 2], [vals.w, 2, 3]]), 4);
+  const z = berezin(weight, 4);
+  const avg = (idx: number[]) => berezin(gmul(new Map([[idx.join(','), 1]]), weight), 4) / z;
+  const byName = (n: string) => r.statements.find((s) => s.name === n)!;
+  assert.ok(Math.abs(at(byName('T12').result!.text, vals).re - inv[0]![1]!) < 1e-12);
+  assert.ok(Math.abs(at(byName('T12').result!.text, vals).re - avg([0, 1])) < 1e-12);
+  assert.ok(Math.abs(at(byName('T24').result!.text, vals).re - inv[1]![3]!) < 1e-12);
+  assert.ok(Math.abs(at(byName('T4').result!.text, vals).re - avg([0, 1, 2, 3])) < 1e-12);
+  const step = stepOf(byName('T12'), 'moment');
+  assert.equal(step.grassmann, true);
+  step.covariance.forEach((row, i) => row.forEach((f, j) => assert.ok(Math.abs(at(f.text, vals).re - inv[i]![j]!) < 1e-12, `G[${i}][${j}]`)));
+  assert.equal(byName('FF').result!.text, '1/2');
+});
