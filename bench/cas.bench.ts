@@ -65,6 +65,23 @@ rows.push(['integral, exact 3 variables, 1 parameter', timeStatement(EXACT_3, 1,
 rows.push(['expect, exact on the whole domain', timeStatement('param t : positive\nintegral T = exp(-(30 + i*t)*(x^2 + y^2 + z^2)/2) d(x, y, z)\nexpect T = (2*pi)^(3/2)/sqrt((30 + i*t)^3)', 2, 15)]);
 const exactAim = 300;
 
+// Symbolic integrals up to 8 variables through the exact route (issue 16): the 4-variable example
+// with its expect (aim: under 300 ms in process), and time-sliced free-particle propagators with
+// 6 and 8 intermediate positions (aim: within the statement limit, 5000 ms by default).
+const FOUR = 'param k : positive\nparam t : real\nintegral Z = exp(-(1/2)*(k + i*t)*(x^2 + y^2 + z^2 + w^2)) d(x, y, z, w)\nexpect Z = (2*pi)^2/(k + i*t)^2';
+rows.push(['integral + expect, 4 variables, k and t (exact)', timeStatement(FOUR, 2, 15)]);
+function propagator(n: number): string {
+  const steps = ['x1^2', ...Array.from({ length: n - 1 }, (_, k) => `(x${k + 2} - x${k + 1})^2`), `x${n}^2`].join(' + ');
+  return `param m : positive\nparam h : positive\nintegral K = exp(i*m*(${steps})/(2*h)) d(${Array.from({ length: n }, (_, k) => `x${k + 1}`).join(', ')})`;
+}
+rows.push(['integral, free particle, 6 slices (symbolic)', timeStatement(propagator(6), 2, 10)]);
+rows.push(['integral, free particle, 8 slices (symbolic)', timeStatement(propagator(8), 2, 10)]);
+const symbolicAims: [string, number][] = [
+  ['integral + expect, 4 variables, k and t (exact)', 300],
+  ['integral, free particle, 6 slices (symbolic)', 5000],
+  ['integral, free particle, 8 slices (symbolic)', 5000],
+];
+
 // continue: the statement on the two-mode example (n = 2), and the continuation core for n = 20
 // numeric variables, 1,000 steps (integrals over more than four variables take numbers for their
 // parameters, so n = 20 is timed below the statement, with the statement's own options but the step count)
@@ -132,6 +149,10 @@ for (const [kind, xs] of rows) {
 const exactRow = rows.find(([k]) => k.startsWith('integral, exact 3'))!;
 const exactMedian = percentile(exactRow[1], 0.5);
 console.log(`exact 3-variable, 1-parameter integral: median ${exactMedian.toFixed(1)} ms, aim < ${exactAim} ms: ${exactMedian < exactAim ? 'reached' : 'NOT reached'}`);
+for (const [kind, aim] of symbolicAims) {
+  const median = percentile(rows.find(([k]) => k === kind)![1], 0.5);
+  console.log(`${kind}: median ${median.toFixed(1)} ms, aim < ${aim} ms${aim === 5000 ? ' (the statement limit)' : ''}: ${median < aim ? 'reached' : 'NOT reached'}`);
+}
 console.log(`continuation n = 20: ${Math.min(...stepsSeen)}-${Math.max(...stepsSeen)} steps per run`);
 for (const e of evaluations) console.log(`verify n = ${e.n}: ${e.evaluations} integrand evaluations, ${e.agrees ? 'agrees' : 'DOES NOT AGREE'} with the closed form`);
 const figures = Object.fromEntries(rows.map(([kind, xs]) => [kind, { medianMs: Number(percentile(xs, 0.5).toFixed(3)), p95Ms: Number(percentile(xs, 0.95).toFixed(3)), runs: xs.length }]));

@@ -33,6 +33,7 @@ function bench(title, cmd, args) {
 
 try {
   bench('computation core: ms per statement kind', tsx, ['bench/cas.bench.ts']);
+  bench('command line: whole-process time of npm run sheetwise (built by scripts/build-cli.mjs)', tsx, ['bench/cli.bench.ts']);
   bench('numeric scale: closed form with the branch rule', tsx, ['bench/numeric-scale.bench.ts']);
   bench('parser: depth and size; the server-side limits check', tsx, ['bench/parser.bench.ts']);
   bench('API under load (autocannon, 127.0.0.1)', tsx, ['bench/api-load.bench.ts']);

@@ -74,7 +74,7 @@ export const LANGUAGE_LIMITS = {
   /** Nesting of parentheses in one statement. */
   expressionDepth: 64,
   /** Integration variables of one integral whose coefficients hold params. */
-  symbolicVariables: 4,
+  symbolicVariables: 8,
   /** Integration variables of one integral with numbers only. */
   numericVariables: 400,
 } as const;

@@ -5,7 +5,8 @@ import { complexApprox } from '../../shared/record/numbers.js';
 
 const quarterPhase = (m: number) => (m === 1 ? 'exp(i*pi/4)' : m === -1 ? 'exp(-i*pi/4)' : `exp(${m}*i*pi/4)`);
 
-function statementLines(s: StatementReport): string[] {
+/** One statement's lines of the readable report (the command line's threads send these as statements finish). */
+export function statementLines(s: StatementReport): string[] {
   // what the statement's verdicts rest on, at the top: proved on the whole domain, piecewise, or sampled
   const piecewise = s.convergence === 'piecewise' || s.branch?.principal === 'piecewise' || s.steps.some((st) => (st.kind === 'expect' || st.kind === 'legality') && st.regions.length > 0);
   const sampled = s.proof === 'sampled' || s.steps.some((st) => 'basis' in st && st.basis.kind === 'sampled');

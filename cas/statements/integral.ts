@@ -8,7 +8,8 @@ import { evaluateIntegralExactly, NonFiniteValue } from './integralExact.js';
 import { freeNames, substitute } from '../expr/names.js';
 import { mul, neg, num } from '../expr/build.js';
 import { ratExpr } from '../expr/fromExact.js';
-import { rfEvalComplex } from '../exact/ratfunc.js';
+import { fromExpr, rfEvalComplex } from '../exact/ratfunc.js';
+import { variables } from '../exact/poly.js';
 import { gaussianAverage } from './moment.js';
 import { complexExpr } from '../expr/numberExpr.js';
 import { evaluate } from '../expr/evaluate.js';
@@ -139,6 +140,9 @@ function polynomialPrefactor(s: IntegralStatement): { P: Expr; bare: Expr } | nu
   const isExp = (e: Expr) => e.t === 'call' && e.fn === 'exp';
   const polys = factors.filter((f) => !isExp(f) && holdsVar(f));
   if (!polys.length || !factors.some(isExp)) return null;
+  // only a polynomial in the variables takes this route; anything else gets the real route's message at its place
+  const isPolynomial = (f: Expr) => { const r = fromExpr(f); return !!r && !variables(r.den).some((v) => vars.has(v)); };
+  if (!polys.every(isPolynomial)) return null;
   const rest = factors.filter((f) => !polys.includes(f));
   return { P: polys.reduce((a, b) => mul(a, b)), bare: rest.reduce((a, b) => mul(a, b)) };
 }

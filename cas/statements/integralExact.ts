@@ -72,15 +72,6 @@ function twoPiPower(n: number): Expr {
   return n === 1 ? call('sqrt', mul(num(2), PI)) : pow(mul(num(2), PI), div(num(n), num(2)));
 }
 
-/** sqrt(p)^m simplified: p^(m/2) for even m, p^((m-1)/2)*sqrt(p) for odd m. */
-function rootPower(p: Expr, m: number): Expr {
-  const whole = Math.floor(m / 2);
-  const w = whole === 0 ? null : whole === 1 ? p : pow(p, num(whole));
-  if (m % 2 === 0) return w!;
-  const r = call('sqrt', p);
-  return w ? mul(w, r) : r;
-}
-
 /** The pivots d_k = M_k / M_{k-1}, with equal ones grouped: the continuous sqrt(det A) is prod sqrt(d_k). */
 function pivotGroups(minors: RatFunc[]): { pivot: RatFunc; count: number }[] {
   const groups: { pivot: RatFunc; count: number }[] = [];
@@ -242,13 +233,21 @@ export function evaluateIntegralExactly(input: ExactInput, ctx: Context, report:
     expr = tail(written === 'negated' ? neg(body) : body);
   } else {
     written = 'pivots';
+    // sqrt(d)^2 = d on every sheet: a pivot's pairs multiply out exactly (cancelling across
+    // pivots), so a diagonal or block-diagonal A prints its factors; only a pivot of odd
+    // multiplicity keeps one principal root
     const groups = pivotGroups(leadingMinorsRat(form.A));
-    let denom: Expr | null = null;
+    let whole: RatFunc = rfConst(1);
+    let roots: Expr | null = null;
     for (const g of groups) {
-      const f = rootPower(ratExpr(g.pivot, true), g.count);
-      denom = denom ? mul(denom, f) : f;
+      for (let j = 0; j < Math.floor(g.count / 2); j++) whole = rfMul(whole, g.pivot);
+      if (g.count % 2 === 1) { const r = call('sqrt', ratExpr(g.pivot, true)); roots = roots ? mul(roots, r) : r; }
     }
-    expr = tail(div(head, denom!));
+    const top = isConstant(whole.den) ? head : mul(head, factoredPolyExpr(whole.den));
+    const bottom = isConstant(whole.den) ? ratExpr(whole, true) : factoredPolyExpr(whole.num);
+    const one = isConstant(whole.num) && isConstant(whole.den) && rfEquals(whole, rfConst(1));
+    const denom = one ? roots : roots ? mul(bottom, roots) : bottom;
+    expr = tail(denom ? div(top, denom) : top);
   }
   void det; void add; void ratfunc; void rfRe; void rfIm; void rootNumber;
   // the printed formula, evaluated as a reader would (principal roots as printed), against the continuous branch

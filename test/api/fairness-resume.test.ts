@@ -107,7 +107,7 @@ test('a report over the total cap: later records are replaced by a message namin
 });
 
 test('limits read from the parse (in the worker) still answer 422, also when a stream was asked for', async () => {
-  const vars = Array.from({ length: 5 }, (_, j) => `y${j}`);
+  const vars = Array.from({ length: LIMITS.symbolicVariables + 1 }, (_, j) => `y${j}`);
   const source = `param k : positive\nintegral Z = exp(-k*(${vars.map((v) => `${v}^2`).join(' + ')})) d(${vars.join(', ')})`;
   const res = await author.stream('/api/evaluate', { source });
   assert.equal(res.status, 422);

@@ -42,12 +42,22 @@ test('check DIR: every .swk below it; exit 1 when one is not ok', () => {
   assert.match(r.stdout, /1 of 2 worksheets ok/);
 });
 
+test('check DIR --json --jobs 2: one JSON object, the worksheets in folder order', () => {
+  const r = cli('check', dir, '--json', '--jobs', '2');
+  assert.equal(r.status, 1, r.stderr);
+  const out = JSON.parse(r.stdout);
+  assert.equal(out.ok, false);
+  assert.deepEqual(out.files.map((f: { file: string }) => f.file), [good, bad]);
+  assert.deepEqual(out.files.map((f: unknown) => worksheetReport.parse(f).ok), [true, false]);
+});
+
 test('usage errors and unreadable files: exit 2', () => {
   assert.equal(cli().status, 2);
   assert.equal(cli('frobnicate', good).status, 2);
   assert.equal(cli('eval', join(dir, 'missing.swk')).status, 2);
   assert.equal(cli('eval', good, '--yaml').status, 2);
   assert.equal(cli('check', join(dir, 'nowhere')).status, 2);
+  assert.equal(cli('check', dir, '--jobs', '0').status, 2);
 });
 
 test('the example outputs in README.md and docs/worksheet-language.md are real runs of the current core', () => {

@@ -56,7 +56,7 @@ test('unknown names, parameters as variables, degree 3 and non-polynomial expone
     ['integral Z = exp(-x^2 - x*y*z + y^2 + z^2) d(x, y, z)', /degree 3 in x \(the term x\*y\*z\)/, 19],
     ['integral Z = exp(-x^4) d(x)', /degree 4 in x/, 19],
     ['integral Z = exp(-x^2 + sin(x)) d(x)', /not a polynomial in x: x appears inside sin/, 19],
-    ['integral Z = x*exp(-x^2) d(x)', /depends on the integration variable x/, 14],
+    ['integral Z = sin(x)*exp(-x^2) d(x)', /depends on the integration variable x/, 14],
     ['integral Z = exp(-x^2/y) d(x, y)', /denominator/, 23],
   ];
   for (const [src, msg, column] of cases) {

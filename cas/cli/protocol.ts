@@ -1,0 +1,19 @@
+/** Messages between the command line's main thread (main.ts) and its evaluation threads (worker.ts). Types only. */
+import type { StatementReport, WorksheetReport } from '../../shared/evaluation.js';
+
+export interface CliJob {
+  id: number;
+  file: string;
+  source: string;
+  /** Per-statement time limit in ms; 0 means none. */
+  limitMs: number;
+  /** Whether to send each statement's readable text too (not for --json). */
+  text: boolean;
+}
+
+export type CliMessage =
+  | { type: 'parsed'; id: number; engine: string; total: number }
+  | { type: 'start'; id: number; index: number; line: number }
+  | { type: 'statement'; id: number; index: number; report: StatementReport; text: string }
+  | { type: 'done'; id: number; report: WorksheetReport }
+  | { type: 'failed'; id: number; message: string };

@@ -1,0 +1,81 @@
+#!/usr/bin/env node
+// Builds the command line and the computation core to JavaScript ahead of time, so that
+// `npm run sheetwise` does not transpile TypeScript at every call (tsx: about 1.2 s).
+//
+//   dist/cli/main.mjs    the main thread (reads files, handles signals, prints)
+//   dist/cli/worker.mjs  an evaluation thread: cas/ and shared/ bundled into one module
+//
+// Packages from node_modules stay outside the bundle (Node loads them), except that the
+// symbolic algebra package (nerdamer, with its Calculus and Algebra extensions) is
+// replaced by a stand-in that loads it with require() on its first use: most
+// worksheets never call it, and loading it costs ~40-60 ms of every start.
+// Run by `npm run build`; `node scripts/build-cli.mjs --check` exits 1 when the build
+// is missing or older than a source file (the same test cas/cli/sheetwise.mjs makes).
+import { build } from 'esbuild';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { buildIsCurrent } from '../cas/cli/freshness.mjs';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+export const outDir = join(root, 'dist', 'cli');
+
+const LAZY_NERDAMER = `
+import { createRequire } from 'node:module';
+const require = createRequire(import.meta.url);
+let loaded = null;
+function load() {
+  if (!loaded) {
+    loaded = require('nerdamer');
+    require('nerdamer/Calculus.js');
+    require('nerdamer/Algebra.js');
+  }
+  return loaded;
+}
+// a function, so that nerdamer(text) works; its properties (diff, flush, ...) are read through
+const lazy = new Proxy(function nerdamer() {}, {
+  apply: (_t, self, args) => Reflect.apply(load(), self, args),
+  get: (_t, key) => load()[key],
+  has: (_t, key) => key in load(),
+});
+export default lazy;
+`;
+
+const lazyNerdamer = {
+  name: 'lazy-nerdamer',
+  setup(b) {
+    b.onResolve({ filter: /^nerdamer$/ }, () => ({ path: 'nerdamer', namespace: 'lazy-nerdamer' }));
+    b.onResolve({ filter: /^nerdamer\/(Calculus|Algebra)(\.js)?$/ }, (a) => ({ path: a.path, namespace: 'lazy-nerdamer-extension' }));
+    b.onLoad({ filter: /.*/, namespace: 'lazy-nerdamer' }, () => ({ contents: LAZY_NERDAMER, loader: 'js', resolveDir: root }));
+    // the extensions are loaded with the package, on first use
+    b.onLoad({ filter: /.*/, namespace: 'lazy-nerdamer-extension' }, () => ({ contents: '', loader: 'js' }));
+  },
+};
+
+export async function buildCli() {
+  await build({
+    absWorkingDir: root,
+    entryPoints: { main: 'cas/cli/main.ts', worker: 'cas/cli/worker.ts' },
+    outdir: outDir,
+    outExtension: { '.js': '.mjs' },
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    packages: 'external',
+    plugins: [lazyNerdamer],
+    sourcemap: 'linked',
+    legalComments: 'none',
+    logLevel: 'warning',
+  });
+}
+
+if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  if (process.argv.includes('--check')) {
+    const current = buildIsCurrent(root);
+    if (!current.ok) { console.error(`dist/cli is ${current.why}: run node scripts/build-cli.mjs`); process.exit(1); }
+  } else {
+    const t = Date.now();
+    await buildCli();
+    console.log(`Built the command line to dist/cli/ in ${Date.now() - t} ms.`);
+  }
+}
