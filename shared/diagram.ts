@@ -37,7 +37,11 @@ export const CONTINUATION_EVENT_KINDS = [
 ] as const;
 export type ContinuationEventKind = (typeof CONTINUATION_EVENT_KINDS)[number];
 
-/** Something met along a continuation path; `step` is the 1-based number of the step that records it. */
+/**
+ * Something met along a continuation path; `step` is the 1-based number of the step of the
+ * statement's record that describes it (the card's numbering). An event without one (the end
+ * point) is drawn unnumbered.
+ */
 export const diagramEvent = z.object({
   kind: z.enum(CONTINUATION_EVENT_KINDS),
   at: complexValue,
@@ -55,8 +59,12 @@ export const diagramPath = z.object({
 });
 export type DiagramPath = z.infer<typeof diagramPath>;
 
-/** How one eigenvalue of A moves while a parameter follows a path. */
-export const diagramTrack = z.object({ label: z.string(), points: z.array(complexValue) });
+/** How one eigenvalue of A (or det A itself, `of: 'det'`) moves while a parameter follows a path. */
+export const diagramTrack = z.object({
+  label: z.string(),
+  points: z.array(complexValue),
+  of: z.enum(['eigenvalue', 'det']).default('eigenvalue'),
+});
 export type DiagramTrack = z.infer<typeof diagramTrack>;
 
 export const diagramData = z.object({

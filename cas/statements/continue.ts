@@ -14,7 +14,7 @@ import { evaluate } from '../expr/evaluate.js';
 import { freeNames, substitute } from '../expr/names.js';
 import { formulaOf } from '../expr/print.js';
 import { renderStep } from '../../shared/record/render.js';
-import { complexApprox, complexApproxLatex } from '../../shared/record/numbers.js';
+import { complexApprox, complexApproxLatex, pointText } from '../../shared/record/numbers.js';
 import { tidy } from '../expr/tidy.js';
 import { neg } from '../expr/build.js';
 import { rewriteChecked } from '../algebra/adapter.js';
@@ -87,7 +87,7 @@ export function evaluateContinue(s: Extract<Statement, { kind: 'continue' }>, ct
       const rot = commonRotation(Aof(c.after));
       const st: Step = { kind: 'continuation-event', event: 'convergence-lost', at: rec(c.t), rotation: rot };
       addEvent(st, { kind: 'convergence-lost', at, text: renderStep(st).text });
-      if (rot) events.push({ kind: 'contour-rotated', at, text: `Contour rotated by theta ${complexApprox({ re: rot.theta, im: 0 }, 4)}` });
+      if (rot) events.push({ kind: 'contour-rotated', at, text: `Contour rotated by theta ${complexApprox({ re: rot.theta, im: 0 }, 4)}`, step: steps.length });
     } else {
       const st: Step = { kind: 'continuation-event', event: 'convergence-regained', at: rec(c.t) };
       addEvent(st, { kind: 'convergence-regained', at, text: renderStep(st).text });
@@ -106,7 +106,8 @@ export function evaluateContinue(s: Extract<Statement, { kind: 'continue' }>, ct
     const at0 = (() => { try { return evaluate(simp, base); } catch { return null; } })();
     if (at0 && Math.hypot(at0.re - value.re, at0.im - value.im) <= 1e-8 * Math.hypot(value.re, value.im)) closed = formulaOf(simp);
   }
-  events.push({ kind: 'sheet', at: { re: end.t[0]!.re, im: end.t[0]!.im }, text: `End value on ${sign > 0 ? 'the principal sheet' : 'minus the principal sheet'}` });
+  // the sheet step is pushed next: its event carries that step's number
+  events.push({ kind: 'sheet', at: { re: end.t[0]!.re, im: end.t[0]!.im }, text: `End value on ${sign > 0 ? 'the principal sheet' : 'minus the principal sheet'}`, step: steps.length + 1 });
   events.push({ kind: 'end', at: { re: end.t[0]!.re, im: end.t[0]!.im }, text: `${name} ${complexApprox(value, 10)}` });
   const onCut = Math.abs(end.det.im) <= 1e-12 * Math.hypot(end.det.re, end.det.im) && end.det.re < 0;
   steps.push({
@@ -118,8 +119,12 @@ export function evaluateContinue(s: Extract<Statement, { kind: 'continue' }>, ct
   const diagram: DiagramData = {
     contours: [], sectors: [], cuts: [PRINCIPAL_CUT],
     paths: [{ label: `Path of ${moving[0]}`, parameter: moving[0]!, points: thin(samples.map((x) => ({ re: x.t[0]!.re, im: x.t[0]!.im }))), events }],
-    tracks: run.tracks.map((tr, k) => ({ label: `Eigenvalue ${k + 1} of A`, points: thin(tr) })),
+    tracks: [
+      ...run.tracks.map((tr, k) => ({ label: `Eigenvalue ${k + 1} of A`, of: 'eigenvalue' as const, points: thin(tr) })),
+      { label: 'det A', of: 'det' as const, points: thin(samples.map((x) => ({ re: x.det.re, im: x.det.im }))) },
+    ],
     eigenvalues: end.eigenvalues.map(polar),
+    eigenvaluesAt: `the end point, ${pointText(Object.fromEntries([...endPoint].map(([k, v]) => [k, { re: v.re, im: v.im }])))}`,
   };
   report.diagram = diagram;
   return report;

@@ -145,8 +145,12 @@ export function safeMath(latex: string): string {
   return latex;
 }
 
-/** A statement's name in math mode (names are letters, digits and underscores). */
-const mathName = (name: string) => `\\mathit{${texText(name)}}`;
+/** A statement's name in math mode (names are letters, digits and underscores; anything else is left out). */
+const mathName = (name: string) => {
+  let out = '';
+  for (const ch of name) out += /[A-Za-z0-9]/.test(ch) ? ch : ch === '_' ? '\\_' : '';
+  return `\\mathit{${out || '?'}}`;
+};
 
 const verdictWords: Record<string, string> = {
   unreviewed: 'not reviewed',
@@ -155,15 +159,62 @@ const verdictWords: Record<string, string> = {
   disputed: 'disputed by a reviewer',
 };
 
-function statementSection(s: StatementReport, review: StatementReviewDto | undefined): string {
+const day = (iso: string | null | undefined) => (iso ? texText(iso.slice(0, 10)) : '');
+
+/**
+ * The review status in words: who decided and when, or of whom it was requested and
+ * when (a request has no decision date), or "not reviewed".
+ */
+export function reviewWords(review: StatementReviewDto | undefined, names = true): string {
+  const status = review?.status ?? 'unreviewed';
+  const fresh = (review?.reviews ?? []).filter((r) => !r.stale);
+  if (status === 'requested') {
+    const asked = fresh.filter((r) => r.status === 'requested');
+    if (!asked.length) return verdictWords['requested']!;
+    const whom = names ? asked.map((r) => texText(r.reviewer)).join(', ') : `${asked.length} reviewer${asked.length === 1 ? '' : 's'}`;
+    const when = asked.map((r) => r.requestedAt).sort()[0];
+    return `review requested of ${whom} on ${day(when)}, no verdict yet`;
+  }
+  const decided = fresh.find((r) => r.status === status);
+  if (!decided) return verdictWords[status] ?? texText(status);
+  const who = names ? [texText(decided.reviewer)] : [];
+  if (decided.decidedAt) who.push(day(decided.decidedAt));
+  return `${verdictWords[status] ?? texText(status)}${who.length ? ` (${who.join(', ')})` : ''}`;
+}
+
+/** A note's text: its note step (the statement's source would print it a second time). */
+const noteText = (s: StatementReport) => s.steps.flatMap((step) => (step.kind === 'note' ? [step.text] : [])).join(' ');
+
+/**
+ * The displayed relation of a result: a limit statement shows its limit step's own
+ * formula (`\lim ... =` for a value, `\sim` for leading behaviour or a divergence), every
+ * other result `NAME = formula`.
+ */
+function resultEquation(s: StatementReport): string | null {
+  const limit = s.steps.find((step) => step.kind === 'limit');
+  if (s.kind === 'limit' && limit) {
+    if (limit.outcome === 'unknown' || limit.outcome === 'oscillating') return null;
+    return renderStep(limit).latex ?? null;
+  }
+  if (!s.result) return null;
+  return `${s.name ? `${mathName(s.name)} = ` : ''}${s.result.latex}`;
+}
+
+function statementSection(s: StatementReport, review: StatementReviewDto | undefined, names: boolean): string {
   const out: string[] = [];
   out.push(`\\paragraph{Line ${s.line}${s.name ? ` (${texText(s.name)})` : ''}.}`);
+  if (s.kind === 'note') {
+    // The note once, as its line was typed (not its line and its step both).
+    out.push(texSource(s.source || noteText(s)));
+    return out.join('\n');
+  }
   out.push(texSource(s.source));
   if (s.error) out.push(`\\noindent\\textbf{Error:} ${texText(s.error.message)}\n`);
   if (s.convergence) {
     out.push(`\\noindent Convergence: ${texText(s.convergence)} (${s.proof === 'proved' ? 'proved' : 'checked at sampled points, not proved'}).\n`);
   }
-  if (s.result) out.push(`\\[ ${s.name ? `${mathName(s.name)} = ` : ''}${safeMath(s.result.latex)} \\]`);
+  const equation = resultEquation(s);
+  if (equation) out.push(`\\[ ${safeMath(equation)} \\]`);
   // The branch verdict's reasons are its branch step, rendered like every other step.
   const branchStep = s.branch ? s.steps.find((step) => step.kind === 'branch') : undefined;
   if (branchStep) out.push(`\\noindent Branch: ${texText(renderStep(branchStep).text)}\n`);
@@ -175,31 +226,142 @@ function statementSection(s: StatementReport, review: StatementReviewDto | undef
     }
     out.push('\\end{enumerate}');
   }
-  const status = review?.status ?? 'unreviewed';
-  const decided = review?.reviews.find((r) => !r.stale && r.status === status);
-  out.push(`\\noindent Review: ${verdictWords[status] ?? texText(status)}${decided ? ` (${texText(decided.reviewer)}, ${texText(decided.decidedAt?.slice(0, 10) ?? '')})` : ''}.\n`);
+  out.push(`\\noindent Review: ${reviewWords(review, names)}.\n`);
   return out.join('\n');
 }
+
+interface ExportInput {
+  title: string;
+  version: number;
+  report: WorksheetReport;
+  reviews: StatementReviewDto[];
+  /** false: review states without the reviewers' names (for a referee outside the group). */
+  reviewerNames?: boolean;
+}
+
+/** The record statement by statement: source, result, numbered steps with their reasons, review. */
+function recordBody(o: ExportInput): string {
+  const byLine = new Map(o.reviews.map((r) => [r.line, r]));
+  return o.report.statements
+    .filter((s) => s.kind !== 'note' || noteText(s))
+    .map((s) => statementSection(s, byLine.get(s.line), o.reviewerNames !== false))
+    .join('\n\n');
+}
+
+const PREAMBLE = ['\\documentclass{article}', '\\usepackage{amsmath}', '\\usepackage{amssymb}', '\\begin{document}'];
 
 /**
  * A standalone appendix (article class, amsmath and amssymb) with each statement, its
  * result, its numbered steps and their reasons, and its review status.
  */
-export function latexAppendix(o: { title: string; version: number; report: WorksheetReport; reviews: StatementReviewDto[] }): string {
-  const byLine = new Map(o.reviews.map((r) => [r.line, r]));
-  const body = o.report.statements
-    .filter((s) => s.kind !== 'note' || s.steps.length)
-    .map((s) => statementSection(s, byLine.get(s.line)))
-    .join('\n\n');
+export function latexAppendix(o: ExportInput): string {
   return [
-    '\\documentclass{article}',
-    '\\usepackage{amsmath}',
-    '\\usepackage{amssymb}',
-    '\\begin{document}',
+    ...PREAMBLE,
     `\\section*{Appendix: ${texText(o.title)}}`,
     `Worksheet version ${Number(o.version)}, exported from Sheetwise. Verdicts marked` + " ``checked at sampled points'' " + 'rest on numerical sampling and are checks, not proofs.',
     '',
-    body,
+    recordBody(o),
+    '\\end{document}',
+    '',
+  ].join('\n');
+}
+
+/** Statements whose result a paper states as an equation. */
+const RESULT_KINDS = new Set(['integral', 'rotate', 'continue', 'let', 'moment', 'derivative', 'limit']);
+/** Statements that check a result: listed after the equations, with their verdicts. */
+const CHECK_KINDS = new Set(['expect', 'verify', 'compare']);
+/** Which steps are remarks of which sort. */
+const REMARK_OF: Partial<Record<string, 'Conditions' | 'Branch' | 'Contour'>> = {
+  convergence: 'Conditions', legality: 'Conditions',
+  branch: 'Branch', sheet: 'Branch', 'continuation-event': 'Branch',
+  rotation: 'Contour', 'fresnel-phase': 'Contour', continuation: 'Contour', jacobian: 'Contour', variables: 'Contour',
+};
+
+/** An equation label: only letters, digits and colons, so any paper can \eqref it. */
+const labelOf = (prefix: string, s: StatementReport) => `${prefix.replace(/[^A-Za-z0-9]/g, '')}:L${s.line}${s.name ? `:${s.name.replace(/[^A-Za-z0-9]/g, '')}` : ''}`;
+
+/**
+ * The fragment to \input into a paper (it needs amsmath and amssymb, which most papers
+ * load): the parameters and their domains, each result as a numbered equation with a
+ * label, and after it its conditions, branch and contour choices and review status as
+ * remarks; then the checks (expect, verify, compare) with their verdicts, and the notes
+ * once each. No preamble, no sections and no definitions, so it sits inside any
+ * document class; everything it prints is in a group of its own.
+ */
+export function latexFragment(o: ExportInput & { labelPrefix?: string; notes?: boolean }): string {
+  const prefix = o.labelPrefix ?? `sheetwise-v${Number(o.version)}`;
+  const byLine = new Map(o.reviews.map((r) => [r.line, r]));
+  const out: string[] = [
+    `% Sheetwise record: version ${Number(o.version)} of a worksheet (the title is printed below).`,
+    '% \\input this file into a document that loads amsmath and amssymb. Equation labels:',
+    `% ${prefix.replace(/[^A-Za-z0-9]/g, '')}:L<line>:<name>.`,
+    '\\begingroup',
+    `\\noindent\\textbf{${texText(o.title)}} (Sheetwise worksheet, version ${Number(o.version)}).`,
+  ];
+  const params = o.report.statements.flatMap((s) => s.steps.filter((step) => step.kind === 'param').map((step) => renderStep(step).latex)).filter((x): x is string => !!x);
+  if (params.length) out.push(`Parameters: ${params.map((p) => `\\(${safeMath(p)}\\)`).join('; ')}.`);
+  out.push('\\par');
+  const checks: string[] = [];
+  const notes: string[] = [];
+  const errors: string[] = [];
+  for (const s of o.report.statements) {
+    if (s.kind === 'note') {
+      const text = noteText(s);
+      if (text && o.notes !== false) notes.push(texText(text));
+      continue;
+    }
+    if (s.error) {
+      errors.push(`line ${s.line}: ${texText(s.error.message)}`);
+      continue;
+    }
+    if (CHECK_KINDS.has(s.kind)) {
+      const last = s.steps[s.steps.length - 1];
+      if (last) checks.push(`line ${s.line}${s.name ? ` (${texText(s.name)})` : ''}: ${texText(renderStep(last).text)}`);
+      continue;
+    }
+    if (!RESULT_KINDS.has(s.kind)) continue;
+    const equation = resultEquation(s);
+    const remarks: Record<'Conditions' | 'Branch' | 'Contour', string[]> = { Conditions: [], Branch: [], Contour: [] };
+    if (s.convergence && !s.steps.some((step) => step.kind === 'convergence')) remarks.Conditions.push(`convergence ${texText(s.convergence)}, ${s.proof === 'proved' ? 'proved on the whole declared domain' : 'checked at sampled points, not proved'}`);
+    for (const step of s.steps) {
+      const sort = REMARK_OF[step.kind];
+      if (sort) remarks[sort].push(texText(renderStep(step).text));
+    }
+    if (s.kind === 'rotate' && s.legal === false) remarks.Conditions.push('the rotation is not allowed, so no result is stated');
+    if (equation) {
+      out.push('\\begin{equation}', `  ${safeMath(equation)}`, `  \\label{${labelOf(prefix, s)}}`, '\\end{equation}');
+    } else {
+      out.push(`\\noindent Line ${s.line}${s.name ? ` (${texText(s.name)})` : ''}: no closed form.\\par`);
+    }
+    const parts = [
+      ...(['Conditions', 'Branch', 'Contour'] as const).filter((k) => remarks[k].length).map((k) => `\\emph{${k}:} ${remarks[k].join(' ')}`),
+      `\\emph{Review:} ${reviewWords(byLine.get(s.line), o.reviewerNames !== false)}.`,
+    ];
+    out.push(`{\\small\\noindent\\textit{Remarks (line ${s.line}).} ${parts.join(' ')}\\par}`);
+  }
+  if (checks.length) out.push('\\medskip\\noindent\\textit{Checks.}', '\\begin{itemize}', ...checks.map((c) => `  \\item ${c}`), '\\end{itemize}');
+  if (errors.length) out.push('\\noindent\\textit{Not evaluated.}', '\\begin{itemize}', ...errors.map((c) => `  \\item ${c}`), '\\end{itemize}');
+  if (notes.length) out.push('\\noindent\\textit{Notes.}', '\\begin{itemize}', ...notes.map((c) => `  \\item ${c}`), '\\end{itemize}');
+  out.push('\\endgroup', '');
+  return out.join('\n');
+}
+
+/**
+ * The wrapper that compiles on its own: article class with amsmath and amssymb, the
+ * fragment (the same text a paper would \input), then the whole record statement by
+ * statement. This is what the referee page's PDF is made from.
+ */
+export function latexStandalone(o: ExportInput & { labelPrefix?: string }): string {
+  return [
+    ...PREAMBLE,
+    `\\section*{${texText(o.title)}}`,
+    `Worksheet version ${Number(o.version)}, exported from Sheetwise. Verdicts marked` + " ``checked at sampled points'' " + 'rest on numerical sampling and are checks, not proofs.',
+    '',
+    '\\subsection*{Results}',
+    // The notes print once, in the record where they stand.
+    latexFragment({ ...o, notes: false }),
+    '\\subsection*{The record}',
+    recordBody(o),
     '\\end{document}',
     '',
   ].join('\n');

@@ -7,7 +7,7 @@ import { currentUser } from '../middleware/auth.js';
 import { requireGroupRole, requireWorksheetRole } from '../middleware/group-access.js';
 import { forbidden, HttpError } from '../middleware/http-error.js';
 import { idParam, parseInput, routeParam } from '../middleware/validate.js';
-import { addComment, findStatement, giveVerdict, groupReviews, loadReview, membersOf, requestReviews, reviewQueue, statementReviews } from '../services/reviews.js';
+import { addComment, findStatement, giveVerdict, groupReviews, loadReview, membersOf, pendingReviewCount, requestReviews, reviewQueue, statementReviews } from '../services/reviews.js';
 
 export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
   const router = Router();
@@ -63,6 +63,11 @@ export function reviewRoutes(config: ServerConfig, mailer: Mailer): Router {
   // The signed-in reviewer's queue: what they were asked and have not answered.
   router.get('/review-queue', async (req, res) => {
     res.json({ reviews: await reviewQueue(currentUser(req).id) });
+  });
+
+  // How many reviews wait for the signed-in person: the count in the top bar.
+  router.get('/review-queue/count', async (req, res) => {
+    res.set('cache-control', 'no-store').json({ count: await pendingReviewCount(currentUser(req).id) });
   });
 
   // A group's reviews, newest first.

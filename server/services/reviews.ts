@@ -129,6 +129,10 @@ export async function addComment(o: { review: Review; author: User; body: string
 export const reviewQueue = async (reviewerId: number) =>
   toDtos(await Review.findAll({ where: { reviewerId, status: 'requested' }, include: withPeople, order: [['requestedAt', 'ASC']] }));
 
+/** How many reviews wait for this reviewer's verdict (in groups that still exist and where they may still review). */
+export const pendingReviewCount = (reviewerId: number) =>
+  Review.count({ where: { reviewerId, status: 'requested' }, include: [{ model: Worksheet, as: 'worksheet', required: true, attributes: [] }] });
+
 /** A group's reviews, newest first. */
 export async function groupReviews(groupId: number): Promise<ReviewDto[]> {
   const sheets = await Worksheet.findAll({ where: { groupId }, attributes: ['id'] });

@@ -75,6 +75,12 @@ export const routes: Routes = [
     loadComponent: () => import('./reviews/review-queue/review-queue').then((m) => m.ReviewQueue),
   },
   {
+    path: 'language',
+    title: 'Language reference · Sheetwise',
+    canActivate: [authGuard],
+    loadComponent: () => import('./language-reference/language-reference').then((m) => m.LanguageReference),
+  },
+  {
     path: 'referee/:token',
     title: 'Referee copy · Sheetwise',
     loadComponent: () => import('./referee/referee-page/referee-page').then((m) => m.RefereePage),

@@ -7,11 +7,12 @@ import { ThemeStore } from './core/theme/theme-store';
 import { LoadingTracker } from './core/loading/loading-tracker';
 import { AccountMenu } from './layout/account-menu/account-menu';
 import { Logo } from './layout/logo/logo';
+import { TopBarReviews } from './layout/top-bar-reviews';
 
 /** The frame around every screen: the bar with the name and account menu, the fetch indicator. */
 @Component({
   selector: 'app-root',
-  imports: [RouterOutlet, RouterLink, MatToolbarModule, MatProgressBarModule, AccountMenu, Logo],
+  imports: [RouterOutlet, RouterLink, MatToolbarModule, MatProgressBarModule, AccountMenu, Logo, TopBarReviews],
   templateUrl: './app.html',
   styleUrl: './app.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

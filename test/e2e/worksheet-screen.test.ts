@@ -71,7 +71,14 @@ async function replaceLine(page: Page, line: number, text: string) {
 
 const card = (page: Page, line: number) => page.locator(`[data-testid="finding-card"][data-line="${line}"]`);
 
+/** The text is kept: saved as a version, or (autosave) kept as a draft on the server. */
 async function waitSaved(page: Page) {
+  await page.getByTestId('save-status').filter({ hasText: /^\s*\S*\s*(Saved · version|Draft kept)/ }).waitFor({ timeout: 15_000 });
+}
+
+/** Save a version now (autosave keeps drafts; a version is a checkpoint). */
+async function saveVersion(page: Page) {
+  await page.getByTestId('save-worksheet').click();
   await page.getByTestId('save-status').filter({ hasText: /^\s*\S*\s*Saved · version/ }).waitFor({ timeout: 15_000 });
 }
 
@@ -96,8 +103,8 @@ test('the demo author sees the findings, types an integral and gets its KaTeX re
   assert.ok((await fresh.getByTestId('finding-step').count()) >= 2, 'the steps of the record are listed');
   assert.match(await fresh.locator('[data-badge="convergence"]').innerText(), /Converges absolutely/);
   // The plane shows only what the report's diagram data gives (the client draws nothing of its
-  // own); an integral's record carries its real contour, the principal cut and the eigenvalues.
-  await page.getByTestId('diagram').locator('[data-role="contour"]').first().waitFor({ state: 'attached' });
+  // own); an integral's record carries the principal cut and the eigenvalues of A.
+  await page.getByTestId('diagram').locator('[data-panel="spectral"] [data-role="cut"]').first().waitFor({ state: 'attached' });
   await waitSaved(page);
   await screenshot(page, 'worksheet-screen-light');
   mkdirSync('docs', { recursive: true });
@@ -131,9 +138,10 @@ test('a syntax error shows as a marker and on its card; the other cards stay; fi
   await screenshot(page, 'worksheet-syntax-error');
 
   await replaceLine(page, errLine, 'param q : real');
+  // Fixed, the line is a parameter: it joins the summary of the declared domains.
   await page.waitForFunction(
-    (l) => !document.querySelector(`[data-testid="finding-card"][data-line="${l}"] [data-testid="finding-error"]`) &&
-      !!document.querySelector(`[data-testid="finding-card"][data-line="${l}"]`),
+    (l) => !document.querySelector(`[data-testid="finding-card"][data-line="${l}"]`) &&
+      !!document.querySelector(`[data-testid="param-summary"] [data-testid="param-entry"][data-line="${l}"]`),
     errLine,
     { timeout: 30_000 },
   );
@@ -155,8 +163,9 @@ test('a second browser saves meanwhile: the first sees both versions and keeps i
   await openWorksheet(a, 'Free particle in three time slices');
   await openWorksheet(b, 'Free particle in three time slices');
   await typeAtEnd(b, ['note "Saved by the second browser"']);
-  await waitSaved(b);
+  await saveVersion(b);
   await typeAtEnd(a, ['note "Typed in the first browser"']);
+  await a.getByTestId('save-worksheet').click();
   await a.getByTestId('save-conflict').waitFor({ timeout: 15_000 });
   await a.locator('[data-testid="conflict-diff"][data-ready="true"]').waitFor();
   await a.getByTestId('conflict-diff').getByText('Saved by the second browser').first().waitFor();
@@ -183,13 +192,86 @@ test('a continuation draws its path with numbered events on the diagram', async 
   await cont.waitFor({ timeout: 30_000 });
   await cont.locator('button.goto').click();
   const diagram = page.getByTestId('diagram');
-  await diagram.locator('[data-role="continuation"]').waitFor({ state: 'attached', timeout: 15_000 });
-  assert.ok((await diagram.locator('[data-role="event"]').count()) >= 1, 'events are marked');
-  const description = await page.getByTestId('diagram-description').textContent();
+  // Two planes, each on its own axes with its title: the parameter plane and the eigenvalue / det A plane.
+  const param = diagram.locator('section[data-panel="parameter"]');
+  const spectral = diagram.locator('section[data-panel="spectral"]');
+  await param.locator('[data-role="continuation"]').waitFor({ state: 'attached', timeout: 15_000 });
+  assert.match(await param.locator('h3').innerText(), /Parameter plane of g/);
+  assert.match(await spectral.locator('h3').innerText(), /eigenvalues of A and of det A/);
+  assert.match(await spectral.getByTestId('panel-subtitle').innerText(), /eigenvalues at the end point, .*g/);
+  assert.equal(await spectral.locator('[data-role="continuation"]').count(), 0, 'the path is not drawn in the eigenvalue plane');
+  assert.equal(await param.locator('[data-role="track"]').count(), 0, 'the tracks are not drawn in the parameter plane');
+  assert.ok((await spectral.locator('[data-role="track"]').count()) >= 2, 'eigenvalue tracks');
+  assert.equal(await spectral.locator('[data-role="det-track"]').count(), 1, "det A's own track");
+  assert.equal(await spectral.locator('[data-role="cut"]').count(), 1, 'the principal cut');
+  // Events carry the numbers of the card's steps, never one beyond them.
+  const steps = await cont.getByTestId('finding-step').count();
+  const numbers = (await param.locator('[data-role="event"]').evaluateAll((els) => els.map((e) => e.getAttribute('data-step') ?? '')))
+    .flatMap((s) => s.split(',').filter(Boolean).map(Number));
+  assert.ok(numbers.length >= 1, 'events are marked');
+  assert.ok(numbers.every((n) => n >= 2 && n <= steps), `event numbers ${numbers} within the ${steps} steps`);
+  // The legend is outside the plots.
+  assert.equal(await diagram.locator('svg [data-role="legend-item"]').count(), 0);
+  assert.ok((await spectral.locator('ul.legend [data-role="legend-item"]').count()) >= 3);
+  // Overlapping eigenvalue labels are merged: no two eigenvalue marks closer than the merge radius.
+  const marks = await spectral.locator('[data-role="eigenvalue"]').evaluateAll((els) => els.map((e) => e.getAttribute('transform')));
+  assert.equal(new Set(marks).size, marks.length);
+  const description = await param.getByTestId('diagram-description').textContent();
   assert.match(description ?? '', /Step \d+/);
+  await diagram.scrollIntoViewIfNeeded();
   await screenshot(page, 'worksheet-continuation');
   await context.close();
 });
+
+// A worksheet of its own per width, untouched by the other tests (no draft of theirs restored).
+const LAYOUTS: [number, string][] = [
+  [1440, 'Continuing the mixing past its branch point'],
+  [1024, 'Three damped modes where the principal root fails'],
+  [800, 'Rotating an oscillatory mode onto a decaying one'],
+];
+for (const [width, title] of LAYOUTS) {
+  test(`at ${width} px the findings are beside the source, the page ends with its content, and the save state moves nothing`, async () => {
+    const context = await browser.newContext({ viewport: { width, height: 900 } });
+    const page = await context.newPage();
+    await signIn(page, server.url, DEMO.author);
+    await openWorksheet(page, title);
+    await page.locator('[data-testid="finding-card"] [data-testid="finding-result"] .katex').first().waitFor({ timeout: 30_000 });
+    // The last statement with a plane is drawn (a continuation shows both of its planes).
+    const last = page.locator('[data-testid="finding-card"]').last();
+    await last.locator('button.goto').click();
+    const box = async (sel: string) => (await page.locator(sel).first().boundingBox())!;
+    const editor = await box('[data-testid="editor"]');
+    const findings = await box('section.findings');
+    const beside = findings.x >= editor.x + editor.width - 1 && findings.y < editor.y + editor.height;
+    const above = findings.y + findings.height <= editor.y + 1;
+    assert.ok(beside || above, `findings ${JSON.stringify(findings)} beside or above the editor ${JSON.stringify(editor)}`);
+    // No blank scroll area: the page is as tall as what is on it.
+    const { scroll, content } = await page.evaluate(() => {
+      let bottom = 0;
+      // The boxes that make the page: its head and the three parts of the columns.
+      for (const el of document.querySelectorAll('.sw-page > .head, .columns > section')) bottom = Math.max(bottom, el.getBoundingClientRect().bottom + window.scrollY);
+      return { scroll: document.documentElement.scrollHeight, content: bottom };
+    });
+    assert.ok(scroll - content < 120, `page ${scroll}px tall for content ending at ${Math.round(content)}px`);
+    // The save state appears without moving the page.
+    // Measured in the document (not the viewport), so that a scroll is not taken for a shift.
+    const columnsTop = () =>
+      page.evaluate(() => {
+        let y = 0;
+        for (let e = document.querySelector<HTMLElement>('.columns'); e; e = e.offsetParent as HTMLElement | null) y += e.offsetTop;
+        return y;
+      });
+    const top = await columnsTop();
+    await page.locator('[data-testid="editor"] .view-lines').click();
+    await page.keyboard.press('Control+End');
+    await page.keyboard.type(' ');
+    await page.getByTestId('save-status').filter({ hasText: /Unsaved|Saving|Saved|draft/i }).waitFor({ timeout: 10_000 });
+    await screenshot(page, `worksheet-layout-${width}`);
+    assert.equal(await columnsTop(), top, 'the columns did not move');
+    await page.keyboard.press('Backspace');
+    await context.close();
+  });
+}
 
 test('the worksheet page has no serious or critical accessibility violation (axe-core), light and dark', async () => {
   // bypassCSP only so that the test can inject axe-core; the page itself runs under its CSP.

@@ -50,4 +50,18 @@ export class RefereeApi {
   open(token: string): Observable<RefereeView> {
     return this.http.get<RefereeView>(`/api/referee/${encodeURIComponent(token)}`);
   }
+
+  /**
+   * The record as a PDF (the standalone LaTeX export compiled on the server), with the
+   * file name the server gives; fails with the server's sentence (e.g. no pdflatex there).
+   */
+  async pdf(token: string): Promise<{ blob: Blob; fileName: string }> {
+    const res = await fetch(`/api/referee/${encodeURIComponent(token)}/pdf`, { credentials: 'same-origin' });
+    if (!res.ok) {
+      const body = (await res.json().catch(() => null)) as { error?: { message?: string } } | null;
+      throw new Error(body?.error?.message ?? `The PDF could not be made (${res.status}).`);
+    }
+    const name = /filename="([^"]+)"/.exec(res.headers.get('content-disposition') ?? '')?.[1] ?? 'record.pdf';
+    return { blob: await res.blob(), fileName: name };
+  }
 }

@@ -1,3 +1,4 @@
+import { PendingReviews } from '../../reviews/pending-reviews/pending-reviews';
 import { ChangeDetectionStrategy, Component, OnInit, inject, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -12,7 +13,7 @@ import { GroupsApi } from '../groups-api';
 
 @Component({
   selector: 'app-group-list',
-  imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, RouterLink],
+  imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, RouterLink, PendingReviews],
   templateUrl: './group-list.html',
   styleUrl: './group-list.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -5,16 +5,21 @@ import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { Title } from '@angular/platform-browser';
 import { catchError, of, switchMap, tap } from 'rxjs';
 import { apiErrorMessage } from '../../core/http/api-error';
+import { MatButtonModule } from '@angular/material/button';
+import { ComplexDiagram } from '../../worksheets/diagram/complex-diagram';
+import { drawnStatement } from '../../worksheets/diagram/diagram-data';
 import { FindingCard } from '../../worksheets/findings/finding-card';
 import { RefereeApi, type RefereeView } from '../referee-api';
 
 /**
  * /referee/:token, for a referee without an account: one frozen version of a worksheet,
- * its source read only and its findings. No editor, no group, nothing else.
+ * its source read only (long lines wrap, with their line numbers kept beside them), its
+ * findings, the complex plane of the selected statement, and the record as a PDF. No
+ * editor, no group, nothing else.
  */
 @Component({
   selector: 'app-referee-page',
-  imports: [DatePipe, FindingCard],
+  imports: [DatePipe, MatButtonModule, FindingCard, ComplexDiagram],
   templateUrl: './referee-page.html',
   styleUrl: './referee-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -31,6 +36,31 @@ export class RefereePage {
   protected readonly error = signal<{ heading: string; text: string } | null>(null);
   protected readonly statements = computed(() => this.view()?.report.statements ?? []);
   protected readonly selectedLine = signal<number | null>(null);
+  protected readonly selected = computed(() => {
+    const line = this.selectedLine();
+    return this.statements().find((s) => (line === null ? s.kind === 'integral' : s.line === line)) ?? null;
+  });
+  protected readonly drawn = computed(() => drawnStatement(this.selected(), this.statements()));
+  protected readonly pdfBusy = signal(false);
+  protected readonly pdfError = signal<string | null>(null);
+
+  protected async downloadPdf(): Promise<void> {
+    this.pdfBusy.set(true);
+    this.pdfError.set(null);
+    try {
+      const { blob, fileName } = await this.api.pdf(this.token());
+      const url = URL.createObjectURL(blob);
+      const a = document.createElement('a');
+      a.href = url;
+      a.download = fileName;
+      a.click();
+      setTimeout(() => URL.revokeObjectURL(url), 10_000);
+    } catch (err) {
+      this.pdfError.set(err instanceof Error ? err.message : String(err));
+    } finally {
+      this.pdfBusy.set(false);
+    }
+  }
 
   constructor() {
     toObservable(this.token)

@@ -1,3 +1,4 @@
+import { PendingReviewsStore } from '../pending-reviews/pending-reviews-store';
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
@@ -30,6 +31,7 @@ export class ReviewThread {
   private readonly api = inject(ReviewsApi);
   private readonly groups = inject(GroupsApi);
   private readonly notifier = inject(Notifier);
+  private readonly pending = inject(PendingReviewsStore);
 
   readonly worksheetId = input.required<number>();
   readonly groupId = input.required<number>();
@@ -156,6 +158,7 @@ export class ReviewThread {
         this.text.update((m) => ({ ...m, [r.id]: '' }));
         this.choice.update((m) => ({ ...m, [r.id]: null }));
         this.notifier.info(c ? `You ${c} ${r.statementKey}.` : 'Reply sent.');
+        if (c) this.pending.refresh();
         this.changed.emit();
       },
       error: (err: unknown) => {

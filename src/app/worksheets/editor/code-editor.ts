@@ -150,6 +150,18 @@ export class CodeEditor {
     this.editor?.focus();
   }
 
+  /** Insert a line of text after a line (an edit, so Undo takes it back); answers the new line's number. */
+  insertLineAfter(line: number, text: string): number {
+    const editor = this.editor;
+    const model = this.model;
+    if (!editor || !model) return line + 1;
+    const after = Math.min(Math.max(line, 1), model.getLineCount());
+    const end = model.getLineMaxColumn(after);
+    editor.executeEdits('sheetwise', [{ range: { startLineNumber: after, startColumn: end, endLineNumber: after, endColumn: end }, text: `\n${text}` }]);
+    editor.pushUndoStop();
+    return after + 1;
+  }
+
   /** The current cursor line (1 when the editor is not there yet). */
   currentLine(): number {
     return this.editor?.getPosition()?.lineNumber ?? 1;
@@ -206,6 +218,7 @@ export class CodeEditor {
       keybindings: [KeyCode.F1],
       run: () => this.help.emit(),
     });
+    this.keepTabEscape(host);
     this.model.onDidChangeContent(() => {
       if (!this.settingValue) this.valueChange.emit(this.model!.getValue());
     });
@@ -220,6 +233,33 @@ export class CodeEditor {
     Object.assign(host, hooks);
     editorFacts.set(uri.toString(), { results: this.hovers(), symbols: this.symbols() });
     this.ready.set(true);
+  }
+
+  /**
+   * Esc then Tab (or Shift+Tab) leaves the editor for the next (or previous) control of the page;
+   * Tab alone indents or accepts a completion as usual. Listening in the capture phase on the
+   * host sees the keys before the editor does.
+   */
+  private keepTabEscape(host: HTMLElement): void {
+    let armed = false;
+    host.addEventListener(
+      'keydown',
+      (e: KeyboardEvent) => {
+        if (e.key === 'Escape') {
+          armed = true;
+          return;
+        }
+        if (e.key === 'Tab' && armed && !e.ctrlKey && !e.altKey && !e.metaKey) {
+          e.preventDefault();
+          e.stopPropagation();
+          armed = false;
+          focusBeyond(host, e.shiftKey ? -1 : 1);
+          return;
+        }
+        if (!['Shift', 'Control', 'Alt', 'Meta'].includes(e.key)) armed = false;
+      },
+      true,
+    );
   }
 
   private applyProblems(problems: EditorProblem[]): void {
@@ -245,4 +285,17 @@ export class CodeEditor {
       });
     monaco.editor.setModelMarkers(model, 'sheetwise', markers);
   }
+}
+
+const FOCUSABLE = 'a[href], button:not([disabled]), input:not([disabled]), select:not([disabled]), textarea:not([disabled]), summary, [tabindex]:not([tabindex="-1"])';
+
+/** Move the focus to the first focusable element after (dir 1) or before (dir -1) an element, outside it. */
+export function focusBeyond(el: HTMLElement, dir: 1 | -1): void {
+  const all = [...document.querySelectorAll<HTMLElement>(FOCUSABLE)].filter(
+    (x) => !el.contains(x) && x.getClientRects().length > 0 && !x.closest('[inert], dialog:not([open])') && x.tabIndex >= 0,
+  );
+  const after = all.filter((x) => (el.compareDocumentPosition(x) & Node.DOCUMENT_POSITION_FOLLOWING) !== 0);
+  const before = all.filter((x) => (el.compareDocumentPosition(x) & Node.DOCUMENT_POSITION_PRECEDING) !== 0);
+  const target = dir === 1 ? after[0] : before[before.length - 1];
+  (target ?? (el.ownerDocument.activeElement as HTMLElement | null))?.focus();
 }

@@ -71,7 +71,7 @@ export function hoverMarkdown(word: string, results: ReadonlyMap<string, string>
   if (symbols?.variables.includes(word)) return `**${word}**: integration variable`;
   if (Object.hasOwn(STATEMENTS, word)) {
     const s = STATEMENTS[word as StatementKeyword];
-    return `**${word}**: ${s.help}\n\n\`${s.form}\`\n\nExample: \`${s.example}\``;
+    return `**${word}**: ${s.help}\n\n\`${s.form}\`\n\nExample: \`${s.example}\`\n\n[Worked example in the language reference](${globalThis.location?.origin ?? ''}/language#${word})`;
   }
   if (Object.hasOwn(FUNCTIONS, word)) return `**${word}**(…): ${FUNCTIONS[word as FunctionName]}`;
   if (Object.hasOwn(CONSTANTS, word)) return `**${word}**: ${CONSTANTS[word as keyof typeof CONSTANTS]}`;

@@ -4,7 +4,14 @@ import { FIXTURE_REPORT } from '../testing/report-fixture';
 import { review, statementReview } from '../../reviews/testing';
 import { renderStep } from '@shared/record/render';
 import { FindingCard } from './finding-card';
-import { badgesOf, convergenceBadge, numericBadge } from './finding-view';
+import { badgesOf, checksOf, convergenceBadge, isProblem, nameLatex, numericBadge, resultLatex, verdictView, verifyLineFor } from './finding-view';
+import { paramEntries } from './param-summary';
+import reportJson from '../testing/all-step-kinds.report.json';
+import { worksheetReport } from '@shared/evaluation';
+
+// The evaluated record of test/fixtures/all-step-kinds.swk (kept equal to a fresh evaluation by test/api/record-renderers.test.ts).
+const ALL = worksheetReport.parse(reportJson).statements;
+const at = (line: number) => ALL.find((s) => s.line === line)!;
 
 const [param, z3, cont, bad] = FIXTURE_REPORT.statements;
 
@@ -23,7 +30,8 @@ describe('FindingCard', () => {
     expect(el.getAttribute('data-testid')).toBe('finding-card');
     expect(el.getAttribute('data-line')).toBe('2');
     const result = el.querySelector<HTMLElement>('[data-testid="finding-result"]')!;
-    expect(result.dataset['latex']).toBe(z3.result!.latex);
+    // The name in the math font, upright as one word (never an italic product Z·3).
+    expect(result.dataset['latex']).toBe(`\\mathrm{Z3} = ${z3.result!.latex}`);
     await vi.waitFor(() => expect(result.dataset['rendered']).toBe('true'), { timeout: 5000 });
     expect(result.querySelector('.katex')).not.toBeNull();
   });
@@ -122,8 +130,20 @@ describe('badge wording', () => {
   it('a proved verdict says proved', () => {
     expect(convergenceBadge(cont)!.label).toBe('Converges absolutely · proved');
   });
-  it('a missing numeric check says not run', () => {
-    expect(numericBadge(cont)!.label).toBe('Numeric check not run');
+  it('a result without a numeric check says not run; a continuation has no numeric badge', () => {
+    expect(numericBadge(at(17))!.label).toBe('Numeric check not run');
+    expect(numericBadge(cont)).toBeNull();
+  });
+  it("a result's badge reads the verify lines for it", () => {
+    const z = at(7);
+    const checks = checksOf(z, ALL);
+    expect(checks.map((c) => c.line)).toEqual([10]);
+    expect(numericBadge(z, checks)).toMatchObject({ label: 'Numeric check agrees', tone: 'good' });
+    expect(numericBadge(z, checks)!.detail).toContain('verify on line 10');
+    expect(numericBadge(z, [{ ...checks[0]!, agrees: false, status: 'failed' }])!.label).toBe('Numeric check disagrees');
+    // The continuation and the limit of Z are not Z's checks, nor is verify Z a check of G.
+    expect(checksOf(at(13), ALL)).toEqual([]);
+    expect(checksOf(at(6), ALL)).toEqual([]);
   });
   it('reads the typed agreement, never words in the step text', () => {
     const disagreeing = z3.steps.map((s) => (s.kind === 'numeric-agreement' ? { ...s, agrees: false } : s));
@@ -136,5 +156,106 @@ describe('badge wording', () => {
   it('divergent and oscillatory verdicts have their own icon and word', () => {
     expect(convergenceBadge({ ...z3, convergence: 'divergent', proof: 'proved' })).toMatchObject({ icon: 'cancel', label: 'Diverges · proved' });
     expect(convergenceBadge({ ...z3, convergence: 'oscillatory', proof: 'proved' })!.icon).toBe('waves');
+  });
+});
+
+describe('card head verdicts', () => {
+  it('a rotation that is not allowed says so, with its icon, and counts as a problem', () => {
+    const gb = at(12);
+    expect(gb.legal).toBe(false);
+    expect(gb.status).toBe('ok');
+    expect(verdictView(gb)).toMatchObject({ icon: 'block', label: 'Not allowed', tone: 'bad', problem: true });
+    expect(isProblem(gb)).toBe(true);
+  });
+  it('a continuation shows its sheet, a comparison its phase, an expectation and a check their verdicts', () => {
+    expect(verdictView(at(13))).toMatchObject({ label: 'Minus the principal sheet', problem: false });
+    const phase = verdictView(at(16));
+    expect(phase.label).toBe('Equal up to the phase');
+    expect(phase.condition!.latex).toBe('e^{i\\pi/4}');
+    expect(verdictView(at(9)).label).toBe('Holds');
+    expect(verdictView(at(10)).label).toBe('Agrees');
+    expect(verdictView(at(6)).label).toBe('Done');
+  });
+  it('piecewise verdicts carry their exact condition; divergent and failed are problems', () => {
+    const conv = at(7).steps.find((s) => s.kind === 'convergence')!;
+    const piecewise = {
+      ...at(7), convergence: 'piecewise' as const,
+      steps: [{ ...conv, verdict: 'piecewise' as const, regions: [{ condition: { text: 'k > 1', latex: 'k > 1' }, holds: true, verdict: 'absolute' as const }, { condition: { text: 'k < 1', latex: 'k < 1' }, holds: false, verdict: 'divergent' as const }] }],
+    };
+    expect(verdictView(piecewise)).toMatchObject({ label: 'Converges only for', condition: { text: 'k > 1' }, problem: false });
+    expect(verdictView({ ...at(6), convergence: 'divergent' })).toMatchObject({ label: 'Divergent', problem: true });
+    expect(verdictView({ ...at(9), status: 'failed' })).toMatchObject({ label: 'Does not hold', problem: true });
+  });
+  it('an asymptotic limit reads "~", a finite one "=" under lim', () => {
+    const lim = at(19);
+    expect(resultLatex(lim)).toMatch(/^\\lim_\{\\mathrm\{lam\} \\to 0\} Z = /);
+    const step = lim.steps[0]!;
+    const asym = { ...lim, steps: [{ ...step, outcome: 'asymptotic' as const }] };
+    expect(resultLatex(asym)).toMatch(/^Z \\sim /);
+  });
+  it('names: one letter italic, longer names upright, an underscore a subscript', () => {
+    expect(nameLatex('Z')).toBe('Z');
+    expect(nameLatex('GF')).toBe('\\mathrm{GF}');
+    expect(nameLatex('Z_rot')).toBe('Z_{\\mathrm{rot}}');
+  });
+  it('a numeric check line names the parameters at the simplest value of their domain', () => {
+    const params = [{ name: 'k', domain: 'positive', line: 2 }, { name: 'lam', domain: 'real', line: 3 }, { name: 'w', domain: 'positive', line: 4 }];
+    expect(verifyLineFor(at(17), params)).toBe('verify G1 at k = 1, lam = 1/2, w = 1');
+  });
+  it('parameter lines become entries of one summary, names set as names', () => {
+    const entries = paramEntries(ALL);
+    expect(entries.map((e) => e.line)).toEqual([2, 3, 4]);
+    expect(entries[1]!.latex).toBe('\\mathrm{lam} \\in \\mathbb{R}');
+    expect(entries[0]!.text).toBe('k is a positive real number.');
+  });
+});
+
+describe('FindingCard head, review badge and one-click check', () => {
+  async function render(st: StatementReport, inputs: Record<string, unknown> = {}) {
+    const fixture = TestBed.createComponent(FindingCard);
+    fixture.componentRef.setInput('statement', st);
+    for (const [k, v] of Object.entries(inputs)) fixture.componentRef.setInput(k, v);
+    await fixture.whenStable();
+    return { fixture, el: fixture.nativeElement as HTMLElement };
+  }
+  it('shows "Not allowed" in the head of an illegal rotation, never "Done"', async () => {
+    const { el } = await render(at(12));
+    const head = el.querySelector('[data-testid="card-verdict"]')!;
+    expect(head.textContent).toContain('Not allowed');
+    expect(head.textContent).not.toContain('Done');
+    expect(head.className).toContain('tone-bad');
+    expect(el.classList.contains('problem')).toBe(true);
+  });
+  it('puts review badges on results and checks only', async () => {
+    for (const line of [2, 5]) expect((await render(at(line))).el.querySelector('[data-testid="review-badge"]')).toBeNull();
+    expect((await render(bad)).el.querySelector('[data-testid="review-badge"]')).toBeNull();
+    // A rotation that is not allowed has no result to review.
+    expect((await render(at(12))).el.querySelector('[data-testid="review-badge"]')).toBeNull();
+    // A note has no verdict in its head.
+    expect((await render(at(5))).el.querySelector('[data-testid="card-verdict"]')).toBeNull();
+    expect((await render(at(7))).el.querySelector('[data-testid="review-badge"]')).not.toBeNull();
+    expect((await render(at(9))).el.querySelector('[data-testid="review-badge"]')).not.toBeNull();
+  });
+  it('offers a numeric check on a result that has none, and says which result', async () => {
+    const { fixture, el } = await render(at(17), { canCheck: true });
+    const asked: string[] = [];
+    fixture.componentInstance.checkNumerically.subscribe((s) => asked.push(s.name!));
+    el.querySelector<HTMLButtonElement>('[data-testid="check-numerically"]')!.click();
+    expect(asked).toEqual(['G1']);
+    const z = at(7);
+    expect((await render(z, { canCheck: true, checks: checksOf(z, ALL) })).el.querySelector('[data-testid="check-numerically"]')).toBeNull();
+    expect((await render(at(17), { canCheck: false })).el.querySelector('[data-testid="check-numerically"]')).toBeNull();
+  });
+  it('a badge is a button: pressing it shows its sentence, pressing again hides it', async () => {
+    const { fixture, el } = await render(z3);
+    const b = el.querySelector<HTMLButtonElement>('button[data-badge="convergence"]')!;
+    expect(b.getAttribute('aria-expanded')).toBe('false');
+    b.click();
+    await fixture.whenStable();
+    expect(b.getAttribute('aria-expanded')).toBe('true');
+    expect(el.querySelector('[data-testid="badge-detail"]')!.textContent).toContain('Convergence: Converges absolutely');
+    b.click();
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="badge-detail"]')).toBeNull();
   });
 });

@@ -18,6 +18,7 @@ export function saveStatus(store: DraftStore): { text: string; icon: string } {
     case 'error':
       return { text: `Not saved: ${store.saveError() ?? 'the server did not accept the save'}`, icon: 'cloud_off' };
     default:
+      if (store.dirty() && store.draftState() === 'kept') return { text: `Draft kept · on version ${base.version}`, icon: 'edit_note' };
       if (store.dirty()) return { text: `Unsaved changes · based on version ${base.version}`, icon: 'edit_note' };
       return { text: store.saveState() === 'saved' ? `Saved · version ${base.version}` : `Version ${base.version}`, icon: 'cloud_done' };
   }

@@ -99,6 +99,8 @@ describe('WorksheetPage', () => {
   afterEach(() => {
     // The reviews of the saved version are fetched on opening and after each save.
     http.match((r) => r.url === '/api/worksheets/7/reviews');
+    // the server-side draft (kept at pauses) and the light poll for a newer version
+    http.match((r) => r.url === '/api/worksheets/7/draft' || r.url === '/api/worksheets/7/head');
     http.verify();
   });
 
@@ -111,6 +113,9 @@ describe('WorksheetPage', () => {
     http.expectOne('/api/groups/5').flush({
       group: { id: 5, name: 'Mode integrals', role, memberCount: 4, worksheetCount: 4 },
     });
+    await fixture.whenStable();
+    // no draft kept on the server for this person
+    for (const r of http.match((q) => q.url === '/api/worksheets/7/draft' && q.method === 'GET')) r.flush({ draft: null });
     await fixture.whenStable();
     return { fixture, el: fixture.nativeElement as HTMLElement };
   }
@@ -143,9 +148,12 @@ describe('WorksheetPage', () => {
   it('shows the stored findings at once: a card per statement in source order, markers for problems', async () => {
     const { el } = await open('author');
     const cards = [...el.querySelectorAll('[data-testid="finding-card"]')];
-    expect(cards.map((c) => c.getAttribute('data-line'))).toEqual(['1', '2', '3', '4']);
-    expect(cards[3].querySelector('[data-testid="finding-error"]')).not.toBeNull();
-    expect(cards[1].querySelector('[data-testid="finding-result"]')).not.toBeNull();
+    // The parameter line is summed up in one compact card above the others.
+    expect([...el.querySelectorAll('[data-testid="param-summary"] [data-testid="param-entry"]')].map((e) => e.getAttribute('data-line'))).toEqual(['1']);
+    expect(cards.map((c) => c.getAttribute('data-line'))).toEqual(['2', '3', '4']);
+    expect(cards[2].querySelector('[data-testid="finding-error"]')).not.toBeNull();
+    expect(cards[0].querySelector('[data-testid="finding-result"]')).not.toBeNull();
+    expect(el.querySelector('[data-testid="findings-summary"]')!.textContent).toContain('1 problem (line 4: Not understood, error)');
     expect(EditorDouble.last!.problems()).toEqual([
       { line: 4, column: 29, message: 'A closing parenthesis is missing before d(x).', severity: 'error' },
     ]);
@@ -162,7 +170,7 @@ describe('WorksheetPage', () => {
     const older = { ...FIXTURE_REPORT, statements: FIXTURE_REPORT.statements.slice(0, 2) };
     stored = { version: 3, engine: 'older-engine', current: false, report: older };
     const { fixture, el } = await open('author');
-    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(2);
+    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(1);
     expect(el.querySelector('[data-testid="recomputing"]')!.textContent).toContain('Recomputing');
     expect(el.querySelector('[data-testid="evaluation-status"]')!.textContent).not.toContain('Evaluating');
     expect(recomputed).toBe(1);
@@ -173,7 +181,7 @@ describe('WorksheetPage', () => {
     recompute$.complete();
     await fixture.whenStable();
     expect(el.querySelector('[data-testid="recomputing"]')).toBeNull();
-    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(4);
+    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(3);
     expect(evaluated).toEqual([]);
   });
 
@@ -184,7 +192,7 @@ describe('WorksheetPage', () => {
     recompute$.next({ type: 'report', report: FIXTURE_REPORT });
     recompute$.complete();
     await fixture.whenStable();
-    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(4);
+    expect(el.querySelectorAll('[data-testid="finding-card"]').length).toBe(3);
   });
 
   it('asks in a dialog before deleting the worksheet', async () => {
@@ -201,7 +209,9 @@ describe('WorksheetPage', () => {
     const { fixture, el } = await open('author');
     // The first integral is selected at the start, and its plane drawn.
     expect(el.querySelector('[data-testid="finding-card"].selected')!.getAttribute('data-line')).toBe('2');
-    expect(el.querySelectorAll('[data-testid="diagram"] [data-role="eigenvalue"]').length).toBe(3);
+    // Three equal eigenvalues are one mark, labelled with their count.
+    const eig = el.querySelectorAll('[data-testid="diagram"] [data-role="eigenvalue"]');
+    expect([...eig].map((e) => e.getAttribute('data-count'))).toEqual(['3']);
     el.querySelector<HTMLButtonElement>('[data-testid="finding-card"][data-line="3"] button.goto')!.click();
     await fixture.whenStable();
     expect(el.querySelector('[data-testid="finding-card"].selected')!.getAttribute('data-line')).toBe('3');

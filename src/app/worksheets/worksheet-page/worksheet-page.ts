@@ -20,12 +20,14 @@ import { GroupsApi } from '../../groups/groups-api';
 import { RefereeLinks } from '../../referee/referee-links/referee-links';
 import { reviewForStatement } from '../../reviews/review-status';
 import { ReviewThread } from '../../reviews/review-thread/review-thread';
+import { placeBeside } from '../../reviews/review-thread/place-beside';
 import { ComplexDiagram } from '../diagram/complex-diagram';
 import { drawnStatement } from '../diagram/diagram-data';
 import { CodeEditor } from '../editor/code-editor';
 import { FindingCard, scrollCardIntoView } from '../findings/finding-card';
 import { loadKatex } from '../findings/math';
-import { isProblem, kindWord } from '../findings/finding-view';
+import { checksOf, isProblem, kindWord, verdictView, verifyLineFor } from '../findings/finding-view';
+import { ParamSummary } from '../findings/param-summary';
 import { HasUnsavedChanges } from '../unsaved-changes-guard';
 import { VersionHistory } from '../version-history/version-history';
 import { WorksheetsApi } from '../worksheets-api';
@@ -45,8 +47,20 @@ export const SHORTCUTS: { keys: string; what: string }[] = [
   { keys: 'F1', what: 'Show these keys' },
   { keys: 'Ctrl+Space', what: 'Complete a keyword, parameter, variable or result name (Tab accepts; Enter always ends the line)' },
   { keys: 'Ctrl+/', what: 'Turn the line into a comment, or back' },
+  { keys: 'Esc, then Tab', what: 'Leave the editor for the findings and the rest of the page (Esc, then Shift+Tab: back to the controls above)' },
   { keys: 'Esc', what: 'Close this sheet or the history' },
 ];
+
+/** "12 statements: 7 results, 1 problem (line 12: Rotation GB, not allowed)." */
+export function findingsSummary(statements: readonly StatementReport[]): string {
+  if (!statements.length) return '';
+  const results = statements.filter((s) => s.result).length;
+  const problems = statements.filter(isProblem);
+  const head = `Findings: ${statements.length} statement${statements.length === 1 ? '' : 's'}, ${results} result${results === 1 ? '' : 's'}`;
+  if (!problems.length) return `${head}, no problems.`;
+  const list = problems.slice(0, 3).map((s) => `line ${s.line}: ${kindWord(s.kind)}${s.name ? ` ${s.name}` : ''}, ${verdictView(s).label.toLowerCase()}`).join('; ');
+  return `${head}, ${problems.length} problem${problems.length === 1 ? '' : 's'} (${list}${problems.length > 3 ? '; …' : ''}).`;
+}
 
 /**
  * One worksheet: the source in the editor, the findings of each statement beside it, and the
@@ -57,7 +71,7 @@ export const SHORTCUTS: { keys: string; what: string }[] = [
   selector: 'app-worksheet-page',
   imports: [
     DatePipe, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule, MatProgressBarModule,
-    CodeEditor, FindingCard, ComplexDiagram, ExportMenu, AttachmentsPanel, RefereeLinks, ReviewThread, VersionHistory,
+    CodeEditor, FindingCard, ParamSummary, ComplexDiagram, ExportMenu, AttachmentsPanel, RefereeLinks, ReviewThread, VersionHistory,
   ],
   providers: [DraftStore, EvaluationController, WorksheetReviews],
   templateUrl: './worksheet-page.html',
@@ -106,6 +120,13 @@ export class WorksheetPage implements HasUnsavedChanges {
   protected readonly problems = computed(() => editorProblems(this.statements()));
   protected readonly problemCount = computed(() => this.statements().filter(isProblem).length);
   protected readonly hovers = computed(() => resultTexts(this.statements()));
+  /** Parameter lines that evaluated are summed up in one card; every other statement has its own. */
+  protected readonly cardStatements = computed(() => this.statements().filter((s) => s.kind !== 'param' || s.status !== 'ok'));
+  protected readonly paramStatements = computed(() => this.statements().filter((s) => s.kind === 'param' && s.status === 'ok'));
+  /** Each result's verify statements, by line. */
+  protected readonly cardChecks = computed(() => new Map(this.statements().map((s) => [s.line, checksOf(s, this.statements())])));
+  /** The findings in a sentence, announced politely when an evaluation ends. */
+  protected readonly summary = computed(() => (this.evaluation.evaluating() ? '' : findingsSummary(this.statements())));
   protected readonly selected = computed<StatementReport | null>(() => {
     const line = this.selectedLine();
     return this.statements().find((s) => (line === null ? s.kind === 'integral' : s.line === line)) ?? null;
@@ -175,7 +196,7 @@ export class WorksheetPage implements HasUnsavedChanges {
   }
 
   protected onVisibility(): void {
-    if (document.visibilityState === 'hidden' && this.store.canSaveOnLeave()) this.store.save();
+    if (document.visibilityState === 'hidden') this.store.keepDraftNow();
   }
 
   protected onKeydown(event: KeyboardEvent): void {
@@ -235,6 +256,16 @@ export class WorksheetPage implements HasUnsavedChanges {
     this.editor()?.revealLine(next.error?.line ?? next.line, next.error?.column ?? 1);
   }
 
+  /** "Check numerically" on a card: a verify line for the result goes under it, and is evaluated. */
+  protected checkNumerically(st: StatementReport): void {
+    const editor = this.editor();
+    if (!editor || !st.name || !this.store.canEdit()) return;
+    const line = editor.insertLineAfter(st.line, verifyLineFor(st, this.evaluation.symbols()?.params ?? []));
+    editor.revealLine(line, 1, false);
+    this.selectedLine.set(line);
+    this.evaluateNow();
+  }
+
   // Side sheets: keys, review threads, files, referee links, history.
 
   protected openSheet(which: Sheet): void {
@@ -255,14 +286,15 @@ export class WorksheetPage implements HasUnsavedChanges {
     this.selectedLine.set(line);
     this.reviews.threadLine.set(line);
     this.openSheet('review');
+    placeBeside(this.sheet('review'), this.cardList()?.nativeElement, line);
   }
 
   protected reloadReviews(): void {
     this.fetchReviews().subscribe();
   }
 
-  protected restoreVersion(source: string): void {
-    this.store.restore(source);
+  protected restoreVersion(v: { source: string; number: number }): void {
+    this.store.restore(v.source, v.number);
     this.sheet('history')?.close?.();
   }
 
