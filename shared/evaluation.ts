@@ -8,7 +8,7 @@ import { diagramData } from './diagram.js';
 import { DOMAINS } from './language.js';
 
 export const STATEMENT_KINDS = [
-  'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'moment', 'derivative', 'invalid',
+  'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'moment', 'derivative', 'product', 'determinant', 'invalid',
 ] as const;
 export type StatementKind = (typeof STATEMENT_KINDS)[number];
 
@@ -281,6 +281,56 @@ export const step = z.discriminatedUnion('kind', [
     /** Each result Z used enters through d log Z / dp, a rational function: listed here. */
     logDerivatives: z.array(z.object({ name: z.string(), formula })),
     checks: z.object({ count: z.number(), worst: z.number() }),
+  }),
+  z.object({
+    /**
+     * The regularisation chosen for a product over infinitely many modes: zeta (prod lambda_n =
+     * exp(-zeta'(0)), zeta(s) = sum lambda_n^-s continued to s = 0), with the branch of
+     * lambda^-s and the value zeta(0) (the power a constant factor of lambda_n enters with).
+     */
+    kind: z.literal('regularisation'),
+    name: z.string(),
+    method: z.literal('zeta'),
+    /** The modes: n >= 0, n >= 1, or all integers. */
+    from: z.union([z.literal(0), z.literal(1), z.literal('all')]),
+    index: z.string(),
+    factor: formula,
+    zetaAtZero: formula,
+    /** The arguments taken for lambda^-s: principal (leading coefficient and roots as they come), or, over all integers, the upper or lower half plane where Im u is positive or negative. */
+    branch: z.enum(['principal', 'upper', 'lower']),
+    /** How the sign of Im u was decided (all integers only): exactly, or at sample points. */
+    decided: z.enum(['exact', 'sampled']).optional(),
+  }),
+  z.object({
+    /** product NAME = P over modes: the factorisation into linear factors and the closed form. */
+    kind: z.literal('mode-product'),
+    name: z.string(),
+    leading: formula,
+    /** The exact roots shifted: P(n) = leading * prod (n + b_j). */
+    shifts: z.array(formula),
+    result: formula,
+    value: complexValue.nullable(),
+    /** Why the product of the linear factors' regularised products equals the regularised product of P (no multiplicative anomaly). */
+    anomaly: z.enum(['linear', 'split-polynomial', 'all-integers', 'all-integers-quadratic']),
+    /** A formula used by name: lerch (prod (n + b) = sqrt(2*pi)/Gamma(b)), reflection (Gamma(1+x)*Gamma(1-x) = pi*x/sin(pi*x)), periodic (all integers). */
+    formulas: z.array(z.enum(['lerch', 'reflection', 'all-integers'])),
+  }),
+  z.object({
+    /** determinant NAME = V on interval L / on circle beta: det(-d^2/dt^2 + V). */
+    kind: z.literal('functional-determinant'),
+    name: z.string(),
+    potential: formula,
+    shape: z.enum(['interval', 'circle']),
+    conditions: z.enum(['dirichlet', 'periodic', 'antiperiodic']),
+    length: formula,
+    /** exact: V constant, closed form; ode: V(t) by the initial-value problem, numerically. */
+    method: z.enum(['exact', 'ode']),
+    result: formula.nullable(),
+    value: complexValue.nullable(),
+    /** The periodic zero mode at V = 0 (the constant), removed: det' = the reduced formula. */
+    zeroMode: z.object({ reduced: formula }).nullable(),
+    /** The ODE solve: RK4 steps of the finer grid and the relative difference from the coarser one. */
+    ode: z.object({ steps: z.number(), difference: z.number() }).nullable(),
   }),
   z.object({
     /** Complex and Grassmann integration variables: the measure convention the result depends on. */

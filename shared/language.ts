@@ -22,13 +22,15 @@ export const STATEMENTS = {
   limit: { form: 'limit NAME : PARAM -> VALUE | inf | -inf', example: 'limit Z : k -> inf', help: 'The limit or leading behaviour of a result.' },
   moment: { form: 'moment NAME = POLYNOMIAL under RESULT', example: 'moment X2 = x^2 under Z', help: 'The Gaussian average of a polynomial in the variables of an integral, by Wick contractions.' },
   derivative: { form: 'derivative NAME = EXPR by PARAM', example: 'derivative E = -log(Z) by beta', help: 'The exact derivative of a quantity built from results and parameters.' },
+  product: { form: 'product NAME = POLYNOMIAL over n >= 1 | n >= 0 | all n', example: 'product P = n^2 + a^2 over n >= 1', help: 'A product over infinitely many modes, regularised by its zeta function, in closed form.' },
+  determinant: { form: 'determinant NAME = V on interval L | on circle BETA periodic | antiperiodic', example: 'determinant D = w^2 on interval L', help: 'The determinant of -d^2/dt^2 + V(t) (V in the variable t): on an interval with Dirichlet ends as the ratio to V = 0, on a circle zeta-regularised.' },
   note: { form: 'note "TEXT"', example: 'note "Euclidean version first."', help: 'Free text kept with the record.' },
 } as const;
 export type StatementKeyword = keyof typeof STATEMENTS;
 export const STATEMENT_KEYWORDS = Object.keys(STATEMENTS) as StatementKeyword[];
 
 /** Words that appear inside statements (after the keyword). */
-export const CLAUSE_WORDS = ['along', 'as', 'at', 'with', 'tolerance', 'steepest', 'inf', 'under', 'by', 'grassmann'] as const;
+export const CLAUSE_WORDS = ['along', 'as', 'at', 'with', 'tolerance', 'steepest', 'inf', 'under', 'by', 'grassmann', 'over', 'all', 'on', 'interval', 'circle', 'periodic', 'antiperiodic'] as const;
 
 export const DOMAINS = ['positive', 'negative', 'real', 'complex', 'nonzero'] as const;
 export type Domain = (typeof DOMAINS)[number];
@@ -49,6 +51,7 @@ export const FUNCTIONS = {
   cos: 'cosine',
   sinh: 'hyperbolic sine',
   cosh: 'hyperbolic cosine',
+  Gamma: 'Euler\'s Gamma function (principal: analytic except at 0, -1, -2, ...)',
   conj: 'complex conjugate; conj(z) of a complex integration variable z is its own variable',
 } as const;
 export type FunctionName = keyof typeof FUNCTIONS;

@@ -29,7 +29,9 @@ export type Statement =
   | { kind: 'verify'; target: NameRef; at: Binding[]; tolerance: Expr | null; span: Span }
   | { kind: 'limit'; target: NameRef; param: NameRef; to: Expr | 'inf' | '-inf'; span: Span }
   | { kind: 'moment'; name: NameRef; expr: Expr; target: NameRef; span: Span }
-  | { kind: 'derivative'; name: NameRef; expr: Expr; param: NameRef; span: Span };
+  | { kind: 'derivative'; name: NameRef; expr: Expr; param: NameRef; span: Span }
+  | { kind: 'product'; name: NameRef; factor: Expr; index: NameRef; from: 0 | 1 | 'all'; span: Span }
+  | { kind: 'determinant'; name: NameRef; potential: Expr; shape: 'interval' | 'circle'; length: Expr; conditions: 'dirichlet' | 'periodic' | 'antiperiodic'; span: Span };
 
 /** An integration variable's kind: real (dx), complex (d^2z = dx dy), or Grassmann (Berezin). */
 export type VariableKind = 'real' | 'complex' | 'grassmann';

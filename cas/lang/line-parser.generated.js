@@ -190,37 +190,48 @@ function peg$parse(input, options) {
   const peg$c16 = "under";
   const peg$c17 = "derivative";
   const peg$c18 = "by";
-  const peg$c19 = "expect";
-  const peg$c20 = "let";
-  const peg$c21 = "note";
-  const peg$c22 = "\"";
-  const peg$c23 = "rotate";
-  const peg$c24 = "as";
-  const peg$c25 = "->";
-  const peg$c26 = "steepest";
-  const peg$c27 = "continue";
-  const peg$c28 = "along";
-  const peg$c29 = "at";
-  const peg$c30 = "compare";
-  const peg$c31 = "with";
-  const peg$c32 = "verify";
-  const peg$c33 = "tolerance";
-  const peg$c34 = ".";
-  const peg$c35 = "-";
-  const peg$c36 = "limit";
-  const peg$c37 = "inf";
-  const peg$c38 = "+";
-  const peg$c39 = "^";
+  const peg$c19 = "product";
+  const peg$c20 = "over";
+  const peg$c21 = "all";
+  const peg$c22 = ">=";
+  const peg$c23 = "determinant";
+  const peg$c24 = "on";
+  const peg$c25 = "interval";
+  const peg$c26 = "circle";
+  const peg$c27 = "periodic";
+  const peg$c28 = "antiperiodic";
+  const peg$c29 = "expect";
+  const peg$c30 = "let";
+  const peg$c31 = "note";
+  const peg$c32 = "\"";
+  const peg$c33 = "rotate";
+  const peg$c34 = "as";
+  const peg$c35 = "->";
+  const peg$c36 = "steepest";
+  const peg$c37 = "continue";
+  const peg$c38 = "along";
+  const peg$c39 = "at";
+  const peg$c40 = "compare";
+  const peg$c41 = "with";
+  const peg$c42 = "verify";
+  const peg$c43 = "tolerance";
+  const peg$c44 = ".";
+  const peg$c45 = "-";
+  const peg$c46 = "limit";
+  const peg$c47 = "inf";
+  const peg$c48 = "+";
+  const peg$c49 = "^";
 
   const peg$r0 = /^[^\n]/;
-  const peg$r1 = /^[^"\n]/;
-  const peg$r2 = /^[0-9]/;
-  const peg$r3 = /^[eE]/;
-  const peg$r4 = /^[+\-]/;
-  const peg$r5 = /^[*\/]/;
-  const peg$r6 = /^[A-Za-z]/;
-  const peg$r7 = /^[A-Za-z0-9_]/;
-  const peg$r8 = /^[ \t]/;
+  const peg$r1 = /^[0-1]/;
+  const peg$r2 = /^[^"\n]/;
+  const peg$r3 = /^[0-9]/;
+  const peg$r4 = /^[eE]/;
+  const peg$r5 = /^[+\-]/;
+  const peg$r6 = /^[*\/]/;
+  const peg$r7 = /^[A-Za-z]/;
+  const peg$r8 = /^[A-Za-z0-9_]/;
+  const peg$r9 = /^[ \t]/;
 
   const peg$e0 = peg$otherExpectation("a comment");
   const peg$e1 = peg$literalExpectation("#", false);
@@ -247,44 +258,56 @@ function peg$parse(input, options) {
   const peg$e22 = peg$literalExpectation("under", false);
   const peg$e23 = peg$literalExpectation("derivative", false);
   const peg$e24 = peg$literalExpectation("by", false);
-  const peg$e25 = peg$literalExpectation("expect", false);
-  const peg$e26 = peg$literalExpectation("let", false);
-  const peg$e27 = peg$literalExpectation("note", false);
-  const peg$e28 = peg$otherExpectation("a text in double quotes");
-  const peg$e29 = peg$literalExpectation("\"", false);
-  const peg$e30 = peg$classExpectation(["\"", "\n"], true, false, false);
-  const peg$e31 = peg$literalExpectation("rotate", false);
-  const peg$e32 = peg$literalExpectation("as", false);
-  const peg$e33 = peg$otherExpectation("a rotation such as x -> exp(i*theta)*x or x -> steepest");
-  const peg$e34 = peg$literalExpectation("->", false);
-  const peg$e35 = peg$literalExpectation("steepest", false);
-  const peg$e36 = peg$literalExpectation("continue", false);
-  const peg$e37 = peg$literalExpectation("along", false);
-  const peg$e38 = peg$otherExpectation("a parameter, or parameters in parentheses");
-  const peg$e39 = peg$otherExpectation("a point of the path (an expression, or a tuple in parentheses)");
-  const peg$e40 = peg$literalExpectation("at", false);
-  const peg$e41 = peg$otherExpectation("a value such as k = 2");
-  const peg$e42 = peg$literalExpectation("compare", false);
-  const peg$e43 = peg$literalExpectation("with", false);
-  const peg$e44 = peg$literalExpectation("verify", false);
-  const peg$e45 = peg$literalExpectation("tolerance", false);
-  const peg$e46 = peg$otherExpectation("a number");
-  const peg$e47 = peg$classExpectation([["0", "9"]], false, false, false);
-  const peg$e48 = peg$literalExpectation(".", false);
-  const peg$e49 = peg$classExpectation(["e", "E"], false, false, false);
-  const peg$e50 = peg$literalExpectation("-", false);
-  const peg$e51 = peg$literalExpectation("limit", false);
-  const peg$e52 = peg$otherExpectation("a value, inf or -inf");
-  const peg$e53 = peg$literalExpectation("inf", false);
-  const peg$e54 = peg$classExpectation(["+", "-"], false, false, false);
-  const peg$e55 = peg$classExpectation(["*", "/"], false, false, false);
-  const peg$e56 = peg$literalExpectation("+", false);
-  const peg$e57 = peg$literalExpectation("^", false);
-  const peg$e58 = peg$otherExpectation("a name");
-  const peg$e59 = peg$classExpectation([["A", "Z"], ["a", "z"]], false, false, false);
-  const peg$e60 = peg$classExpectation([["A", "Z"], ["a", "z"], ["0", "9"], "_"], false, false, false);
-  const peg$e61 = peg$otherExpectation("a space");
-  const peg$e62 = peg$classExpectation([" ", "\t"], false, false, false);
+  const peg$e25 = peg$literalExpectation("product", false);
+  const peg$e26 = peg$literalExpectation("over", false);
+  const peg$e27 = peg$otherExpectation("a range of modes (n >= 0, n >= 1 or all n)");
+  const peg$e28 = peg$literalExpectation("all", false);
+  const peg$e29 = peg$literalExpectation(">=", false);
+  const peg$e30 = peg$classExpectation([["0", "1"]], false, false, false);
+  const peg$e31 = peg$literalExpectation("determinant", false);
+  const peg$e32 = peg$literalExpectation("on", false);
+  const peg$e33 = peg$literalExpectation("interval", false);
+  const peg$e34 = peg$literalExpectation("circle", false);
+  const peg$e35 = peg$literalExpectation("periodic", false);
+  const peg$e36 = peg$literalExpectation("antiperiodic", false);
+  const peg$e37 = peg$literalExpectation("expect", false);
+  const peg$e38 = peg$literalExpectation("let", false);
+  const peg$e39 = peg$literalExpectation("note", false);
+  const peg$e40 = peg$otherExpectation("a text in double quotes");
+  const peg$e41 = peg$literalExpectation("\"", false);
+  const peg$e42 = peg$classExpectation(["\"", "\n"], true, false, false);
+  const peg$e43 = peg$literalExpectation("rotate", false);
+  const peg$e44 = peg$literalExpectation("as", false);
+  const peg$e45 = peg$otherExpectation("a rotation such as x -> exp(i*theta)*x or x -> steepest");
+  const peg$e46 = peg$literalExpectation("->", false);
+  const peg$e47 = peg$literalExpectation("steepest", false);
+  const peg$e48 = peg$literalExpectation("continue", false);
+  const peg$e49 = peg$literalExpectation("along", false);
+  const peg$e50 = peg$otherExpectation("a parameter, or parameters in parentheses");
+  const peg$e51 = peg$otherExpectation("a point of the path (an expression, or a tuple in parentheses)");
+  const peg$e52 = peg$literalExpectation("at", false);
+  const peg$e53 = peg$otherExpectation("a value such as k = 2");
+  const peg$e54 = peg$literalExpectation("compare", false);
+  const peg$e55 = peg$literalExpectation("with", false);
+  const peg$e56 = peg$literalExpectation("verify", false);
+  const peg$e57 = peg$literalExpectation("tolerance", false);
+  const peg$e58 = peg$otherExpectation("a number");
+  const peg$e59 = peg$classExpectation([["0", "9"]], false, false, false);
+  const peg$e60 = peg$literalExpectation(".", false);
+  const peg$e61 = peg$classExpectation(["e", "E"], false, false, false);
+  const peg$e62 = peg$literalExpectation("-", false);
+  const peg$e63 = peg$literalExpectation("limit", false);
+  const peg$e64 = peg$otherExpectation("a value, inf or -inf");
+  const peg$e65 = peg$literalExpectation("inf", false);
+  const peg$e66 = peg$classExpectation(["+", "-"], false, false, false);
+  const peg$e67 = peg$classExpectation(["*", "/"], false, false, false);
+  const peg$e68 = peg$literalExpectation("+", false);
+  const peg$e69 = peg$literalExpectation("^", false);
+  const peg$e70 = peg$otherExpectation("a name");
+  const peg$e71 = peg$classExpectation([["A", "Z"], ["a", "z"]], false, false, false);
+  const peg$e72 = peg$classExpectation([["A", "Z"], ["a", "z"], ["0", "9"], "_"], false, false, false);
+  const peg$e73 = peg$otherExpectation("a space");
+  const peg$e74 = peg$classExpectation([" ", "\t"], false, false, false);
 
   function peg$f0(s) {    return s;  }
   function peg$f1(names, domain) {    return { kind: 'param', names, domain, span: span() };  }
@@ -303,54 +326,59 @@ function peg$parse(input, options) {
   function peg$f10(k) {    return k;  }
   function peg$f11(name, expr, target) {    return { kind: 'moment', name, expr, target, span: span() };  }
   function peg$f12(name, expr, param) {    return { kind: 'derivative', name, expr, param, span: span() };  }
-  function peg$f13(name, expr) {    return { kind: 'expect', name, expr, span: span() };  }
-  function peg$f14(name, expr) {    return { kind: 'let', name, expr, span: span() };  }
-  function peg$f15(text) {    return { kind: 'note', text, span: span() };  }
-  function peg$f16(chars) {    return chars;  }
-  function peg$f17(target, moves, as) {    return { kind: 'rotate', target, moves, as, span: span() };  }
-  function peg$f18(head, m) {    return m;  }
-  function peg$f19(head, tail) {    return [head, ...tail];  }
-  function peg$f20(variable) {    return { variable, to: 'steepest' };  }
-  function peg$f21(variable, to) {    return { variable, to };  }
-  function peg$f22(target, params, points, at) {    return { kind: 'continue', target, params, points, at: at ?? [], span: span() };  }
-  function peg$f23(names) {    return names;  }
-  function peg$f24(n) {    return [n];  }
-  function peg$f25(head, p) {    return p;  }
-  function peg$f26(head, tail) {    return [head, ...tail];  }
-  function peg$f27(head, e) {    return e;  }
-  function peg$f28(head, tail) {    return [head, ...tail];  }
-  function peg$f29(e) {    return [e];  }
-  function peg$f30(bindings) {    return bindings;  }
-  function peg$f31(head, b) {    return b;  }
-  function peg$f32(head, tail) {    return [head, ...tail];  }
-  function peg$f33(name, value) {    return { name, value };  }
-  function peg$f34(target, other) {    return { kind: 'compare', target, other, span: span() };  }
-  function peg$f35(target, at, tol) {    return { kind: 'verify', target, at: at ?? [], tolerance: tol ?? null, span: span() };  }
-  function peg$f36(t) {    return t;  }
-  function peg$f37(v) {    return { t: 'num', v: String(Number(v)), span: span() };  }
-  function peg$f38(target, param, to) {    return { kind: 'limit', target, param, to, span: span() };  }
-  function peg$f39() {    return '-inf';  }
-  function peg$f40() {    return 'inf';  }
-  function peg$f41(head, op, b) {    return [op, b];  }
-  function peg$f42(head, tail) {    return bin(head, tail);  }
-  function peg$f43(head, op, b) {    return [op, b];  }
-  function peg$f44(head, tail) {    return bin(head, tail);  }
-  function peg$f45(a) {    return { t: 'neg', a, span: span() };  }
-  function peg$f46(a) {    return a;  }
-  function peg$f47(base, e) {    return e;  }
-  function peg$f48(base, exp) {    return exp === null ? base : { t: 'bin', op: '^', a: base, b: exp, span: span() };  }
-  function peg$f49(e) {    return e;  }
-  function peg$f50(fn, args) {    return { t: 'call', fn, args, span: span() };  }
-  function peg$f51(head, e) {    return e;  }
-  function peg$f52(head, tail) {    return [head, ...tail];  }
-  function peg$f53(name) {
+  function peg$f13(name, factor, range) {    return { kind: 'product', name, factor, index: range.index, from: range.from, span: span() };  }
+  function peg$f14(index) {    return { index, from: 'all' };  }
+  function peg$f15(index, from) {    return { index, from: Number(from) };  }
+  function peg$f16(name, potential, length) {    return { kind: 'determinant', name, potential, shape: 'interval', length, conditions: 'dirichlet', span: span() };  }
+  function peg$f17(name, potential, length, conditions) {    return { kind: 'determinant', name, potential, shape: 'circle', length, conditions, span: span() };  }
+  function peg$f18(name, expr) {    return { kind: 'expect', name, expr, span: span() };  }
+  function peg$f19(name, expr) {    return { kind: 'let', name, expr, span: span() };  }
+  function peg$f20(text) {    return { kind: 'note', text, span: span() };  }
+  function peg$f21(chars) {    return chars;  }
+  function peg$f22(target, moves, as) {    return { kind: 'rotate', target, moves, as, span: span() };  }
+  function peg$f23(head, m) {    return m;  }
+  function peg$f24(head, tail) {    return [head, ...tail];  }
+  function peg$f25(variable) {    return { variable, to: 'steepest' };  }
+  function peg$f26(variable, to) {    return { variable, to };  }
+  function peg$f27(target, params, points, at) {    return { kind: 'continue', target, params, points, at: at ?? [], span: span() };  }
+  function peg$f28(names) {    return names;  }
+  function peg$f29(n) {    return [n];  }
+  function peg$f30(head, p) {    return p;  }
+  function peg$f31(head, tail) {    return [head, ...tail];  }
+  function peg$f32(head, e) {    return e;  }
+  function peg$f33(head, tail) {    return [head, ...tail];  }
+  function peg$f34(e) {    return [e];  }
+  function peg$f35(bindings) {    return bindings;  }
+  function peg$f36(head, b) {    return b;  }
+  function peg$f37(head, tail) {    return [head, ...tail];  }
+  function peg$f38(name, value) {    return { name, value };  }
+  function peg$f39(target, other) {    return { kind: 'compare', target, other, span: span() };  }
+  function peg$f40(target, at, tol) {    return { kind: 'verify', target, at: at ?? [], tolerance: tol ?? null, span: span() };  }
+  function peg$f41(t) {    return t;  }
+  function peg$f42(v) {    return { t: 'num', v: String(Number(v)), span: span() };  }
+  function peg$f43(target, param, to) {    return { kind: 'limit', target, param, to, span: span() };  }
+  function peg$f44() {    return '-inf';  }
+  function peg$f45() {    return 'inf';  }
+  function peg$f46(head, op, b) {    return [op, b];  }
+  function peg$f47(head, tail) {    return bin(head, tail);  }
+  function peg$f48(head, op, b) {    return [op, b];  }
+  function peg$f49(head, tail) {    return bin(head, tail);  }
+  function peg$f50(a) {    return { t: 'neg', a, span: span() };  }
+  function peg$f51(a) {    return a;  }
+  function peg$f52(base, e) {    return e;  }
+  function peg$f53(base, exp) {    return exp === null ? base : { t: 'bin', op: '^', a: base, b: exp, span: span() };  }
+  function peg$f54(e) {    return e;  }
+  function peg$f55(fn, args) {    return { t: 'call', fn, args, span: span() };  }
+  function peg$f56(head, e) {    return e;  }
+  function peg$f57(head, tail) {    return [head, ...tail];  }
+  function peg$f58(name) {
     // Euler's number is exp(1) in worksheets, so e is an ordinary name there; the
     // algebra adapter's answers (options.internal) may still use the constant e.
     if (name === 'i' || name === 'pi' || (name === 'e' && options.internal)) return { t: 'const', name, span: span() };
     return { t: 'name', name, span: span() };
   }
-  function peg$f54(v) {    return { t: 'num', v, span: span() };  }
-  function peg$f55(name) {    return { name, span: span() };  }
+  function peg$f59(v) {    return { t: 'num', v, span: span() };  }
+  function peg$f60(name) {    return { name, span: span() };  }
   let peg$currPos = options.peg$currPos | 0;
   let peg$savedPos = peg$currPos;
   const peg$posDetailsCache = [{ line: 1, column: 1 }];
@@ -648,6 +676,12 @@ function peg$parse(input, options) {
                         s0 = peg$parseMoment();
                         if (s0 === peg$FAILED) {
                           s0 = peg$parseDerivative();
+                          if (s0 === peg$FAILED) {
+                            s0 = peg$parseModeProduct();
+                            if (s0 === peg$FAILED) {
+                              s0 = peg$parseDeterminant();
+                            }
+                          }
                         }
                       }
                     }
@@ -1273,13 +1307,13 @@ function peg$parse(input, options) {
     return s0;
   }
 
-  function peg$parseExpect() {
-    let s0, s1, s2, s3, s4, s5, s6, s7;
+  function peg$parseModeProduct() {
+    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c19) {
+    if (input.substr(peg$currPos, 7) === peg$c19) {
       s1 = peg$c19;
-      peg$currPos += 6;
+      peg$currPos += 7;
     } else {
       s1 = peg$FAILED;
       if (peg$silentFails === 0) { peg$fail(peg$e25); }
@@ -1301,8 +1335,425 @@ function peg$parse(input, options) {
             s6 = peg$parse_();
             s7 = peg$parseSum();
             if (s7 !== peg$FAILED) {
+              s8 = peg$parse__();
+              if (s8 !== peg$FAILED) {
+                if (input.substr(peg$currPos, 4) === peg$c20) {
+                  s9 = peg$c20;
+                  peg$currPos += 4;
+                } else {
+                  s9 = peg$FAILED;
+                  if (peg$silentFails === 0) { peg$fail(peg$e26); }
+                }
+                if (s9 !== peg$FAILED) {
+                  s10 = peg$parse__();
+                  if (s10 !== peg$FAILED) {
+                    s11 = peg$parseModeRange();
+                    if (s11 !== peg$FAILED) {
+                      peg$savedPos = s0;
+                      s0 = peg$f13(s3, s7, s11);
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+
+    return s0;
+  }
+
+  function peg$parseModeRange() {
+    let s0, s1, s2, s3, s4, s5, s6, s7;
+
+    peg$silentFails++;
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 3) === peg$c21) {
+      s1 = peg$c21;
+      peg$currPos += 3;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e28); }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        s3 = peg$parseNameRef();
+        if (s3 !== peg$FAILED) {
+          peg$savedPos = s0;
+          s0 = peg$f14(s3);
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+    if (s0 === peg$FAILED) {
+      s0 = peg$currPos;
+      s1 = peg$parseNameRef();
+      if (s1 !== peg$FAILED) {
+        s2 = peg$parse_();
+        if (input.substr(peg$currPos, 2) === peg$c22) {
+          s3 = peg$c22;
+          peg$currPos += 2;
+        } else {
+          s3 = peg$FAILED;
+          if (peg$silentFails === 0) { peg$fail(peg$e29); }
+        }
+        if (s3 !== peg$FAILED) {
+          s4 = peg$parse_();
+          s5 = input.charAt(peg$currPos);
+          if (peg$r1.test(s5)) {
+            peg$currPos++;
+          } else {
+            s5 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e30); }
+          }
+          if (s5 !== peg$FAILED) {
+            s6 = peg$currPos;
+            peg$silentFails++;
+            s7 = peg$parseIdChar();
+            peg$silentFails--;
+            if (s7 === peg$FAILED) {
+              s6 = undefined;
+            } else {
+              peg$currPos = s6;
+              s6 = peg$FAILED;
+            }
+            if (s6 !== peg$FAILED) {
               peg$savedPos = s0;
-              s0 = peg$f13(s3, s7);
+              s0 = peg$f15(s1, s5);
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    }
+    peg$silentFails--;
+    if (s0 === peg$FAILED) {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e27); }
+    }
+
+    return s0;
+  }
+
+  function peg$parseDeterminant() {
+    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11, s12, s13, s14, s15, s16, s17;
+
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 11) === peg$c23) {
+      s1 = peg$c23;
+      peg$currPos += 11;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e31); }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        s3 = peg$parseNameRef();
+        if (s3 !== peg$FAILED) {
+          s4 = peg$parse_();
+          if (input.charCodeAt(peg$currPos) === 61) {
+            s5 = peg$c10;
+            peg$currPos++;
+          } else {
+            s5 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+          }
+          if (s5 !== peg$FAILED) {
+            s6 = peg$parse_();
+            s7 = peg$parseSum();
+            if (s7 !== peg$FAILED) {
+              s8 = peg$parse__();
+              if (s8 !== peg$FAILED) {
+                if (input.substr(peg$currPos, 2) === peg$c24) {
+                  s9 = peg$c24;
+                  peg$currPos += 2;
+                } else {
+                  s9 = peg$FAILED;
+                  if (peg$silentFails === 0) { peg$fail(peg$e32); }
+                }
+                if (s9 !== peg$FAILED) {
+                  s10 = peg$parse__();
+                  if (s10 !== peg$FAILED) {
+                    if (input.substr(peg$currPos, 8) === peg$c25) {
+                      s11 = peg$c25;
+                      peg$currPos += 8;
+                    } else {
+                      s11 = peg$FAILED;
+                      if (peg$silentFails === 0) { peg$fail(peg$e33); }
+                    }
+                    if (s11 !== peg$FAILED) {
+                      s12 = peg$parse__();
+                      if (s12 !== peg$FAILED) {
+                        s13 = peg$parseSum();
+                        if (s13 !== peg$FAILED) {
+                          peg$savedPos = s0;
+                          s0 = peg$f16(s3, s7, s13);
+                        } else {
+                          peg$currPos = s0;
+                          s0 = peg$FAILED;
+                        }
+                      } else {
+                        peg$currPos = s0;
+                        s0 = peg$FAILED;
+                      }
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+    if (s0 === peg$FAILED) {
+      s0 = peg$currPos;
+      if (input.substr(peg$currPos, 11) === peg$c23) {
+        s1 = peg$c23;
+        peg$currPos += 11;
+      } else {
+        s1 = peg$FAILED;
+        if (peg$silentFails === 0) { peg$fail(peg$e31); }
+      }
+      if (s1 !== peg$FAILED) {
+        s2 = peg$parse__();
+        if (s2 !== peg$FAILED) {
+          s3 = peg$parseNameRef();
+          if (s3 !== peg$FAILED) {
+            s4 = peg$parse_();
+            if (input.charCodeAt(peg$currPos) === 61) {
+              s5 = peg$c10;
+              peg$currPos++;
+            } else {
+              s5 = peg$FAILED;
+              if (peg$silentFails === 0) { peg$fail(peg$e15); }
+            }
+            if (s5 !== peg$FAILED) {
+              s6 = peg$parse_();
+              s7 = peg$parseSum();
+              if (s7 !== peg$FAILED) {
+                s8 = peg$parse__();
+                if (s8 !== peg$FAILED) {
+                  if (input.substr(peg$currPos, 2) === peg$c24) {
+                    s9 = peg$c24;
+                    peg$currPos += 2;
+                  } else {
+                    s9 = peg$FAILED;
+                    if (peg$silentFails === 0) { peg$fail(peg$e32); }
+                  }
+                  if (s9 !== peg$FAILED) {
+                    s10 = peg$parse__();
+                    if (s10 !== peg$FAILED) {
+                      if (input.substr(peg$currPos, 6) === peg$c26) {
+                        s11 = peg$c26;
+                        peg$currPos += 6;
+                      } else {
+                        s11 = peg$FAILED;
+                        if (peg$silentFails === 0) { peg$fail(peg$e34); }
+                      }
+                      if (s11 !== peg$FAILED) {
+                        s12 = peg$parse__();
+                        if (s12 !== peg$FAILED) {
+                          s13 = peg$parseSum();
+                          if (s13 !== peg$FAILED) {
+                            s14 = peg$parse__();
+                            if (s14 !== peg$FAILED) {
+                              if (input.substr(peg$currPos, 8) === peg$c27) {
+                                s15 = peg$c27;
+                                peg$currPos += 8;
+                              } else {
+                                s15 = peg$FAILED;
+                                if (peg$silentFails === 0) { peg$fail(peg$e35); }
+                              }
+                              if (s15 === peg$FAILED) {
+                                if (input.substr(peg$currPos, 12) === peg$c28) {
+                                  s15 = peg$c28;
+                                  peg$currPos += 12;
+                                } else {
+                                  s15 = peg$FAILED;
+                                  if (peg$silentFails === 0) { peg$fail(peg$e36); }
+                                }
+                              }
+                              if (s15 !== peg$FAILED) {
+                                s16 = peg$currPos;
+                                peg$silentFails++;
+                                s17 = peg$parseIdChar();
+                                peg$silentFails--;
+                                if (s17 === peg$FAILED) {
+                                  s16 = undefined;
+                                } else {
+                                  peg$currPos = s16;
+                                  s16 = peg$FAILED;
+                                }
+                                if (s16 !== peg$FAILED) {
+                                  peg$savedPos = s0;
+                                  s0 = peg$f17(s3, s7, s13, s15);
+                                } else {
+                                  peg$currPos = s0;
+                                  s0 = peg$FAILED;
+                                }
+                              } else {
+                                peg$currPos = s0;
+                                s0 = peg$FAILED;
+                              }
+                            } else {
+                              peg$currPos = s0;
+                              s0 = peg$FAILED;
+                            }
+                          } else {
+                            peg$currPos = s0;
+                            s0 = peg$FAILED;
+                          }
+                        } else {
+                          peg$currPos = s0;
+                          s0 = peg$FAILED;
+                        }
+                      } else {
+                        peg$currPos = s0;
+                        s0 = peg$FAILED;
+                      }
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    }
+
+    return s0;
+  }
+
+  function peg$parseExpect() {
+    let s0, s1, s2, s3, s4, s5, s6, s7;
+
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 6) === peg$c29) {
+      s1 = peg$c29;
+      peg$currPos += 6;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e37); }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        s3 = peg$parseNameRef();
+        if (s3 !== peg$FAILED) {
+          s4 = peg$parse_();
+          if (input.charCodeAt(peg$currPos) === 61) {
+            s5 = peg$c10;
+            peg$currPos++;
+          } else {
+            s5 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+          }
+          if (s5 !== peg$FAILED) {
+            s6 = peg$parse_();
+            s7 = peg$parseSum();
+            if (s7 !== peg$FAILED) {
+              peg$savedPos = s0;
+              s0 = peg$f18(s3, s7);
             } else {
               peg$currPos = s0;
               s0 = peg$FAILED;
@@ -1331,12 +1782,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 3) === peg$c20) {
-      s1 = peg$c20;
+    if (input.substr(peg$currPos, 3) === peg$c30) {
+      s1 = peg$c30;
       peg$currPos += 3;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e26); }
+      if (peg$silentFails === 0) { peg$fail(peg$e38); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1356,7 +1807,7 @@ function peg$parse(input, options) {
             s7 = peg$parseSum();
             if (s7 !== peg$FAILED) {
               peg$savedPos = s0;
-              s0 = peg$f14(s3, s7);
+              s0 = peg$f19(s3, s7);
             } else {
               peg$currPos = s0;
               s0 = peg$FAILED;
@@ -1385,19 +1836,19 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 4) === peg$c21) {
-      s1 = peg$c21;
+    if (input.substr(peg$currPos, 4) === peg$c31) {
+      s1 = peg$c31;
       peg$currPos += 4;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e27); }
+      if (peg$silentFails === 0) { peg$fail(peg$e39); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       s3 = peg$parseStringLit();
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f15(s3);
+        s0 = peg$f20(s3);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1416,43 +1867,43 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 34) {
-      s1 = peg$c22;
+      s1 = peg$c32;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e29); }
+      if (peg$silentFails === 0) { peg$fail(peg$e41); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$currPos;
       s3 = [];
       s4 = input.charAt(peg$currPos);
-      if (peg$r1.test(s4)) {
+      if (peg$r2.test(s4)) {
         peg$currPos++;
       } else {
         s4 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e30); }
+        if (peg$silentFails === 0) { peg$fail(peg$e42); }
       }
       while (s4 !== peg$FAILED) {
         s3.push(s4);
         s4 = input.charAt(peg$currPos);
-        if (peg$r1.test(s4)) {
+        if (peg$r2.test(s4)) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e30); }
+          if (peg$silentFails === 0) { peg$fail(peg$e42); }
         }
       }
       s2 = input.substring(s2, peg$currPos);
       if (input.charCodeAt(peg$currPos) === 34) {
-        s3 = peg$c22;
+        s3 = peg$c32;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e29); }
+        if (peg$silentFails === 0) { peg$fail(peg$e41); }
       }
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f16(s2);
+        s0 = peg$f21(s2);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1464,7 +1915,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e28); }
+      if (peg$silentFails === 0) { peg$fail(peg$e40); }
     }
 
     return s0;
@@ -1474,12 +1925,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c23) {
-      s1 = peg$c23;
+    if (input.substr(peg$currPos, 6) === peg$c33) {
+      s1 = peg$c33;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e31); }
+      if (peg$silentFails === 0) { peg$fail(peg$e43); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1499,12 +1950,12 @@ function peg$parse(input, options) {
             s7 = peg$parseMoveList();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 2) === peg$c24) {
-                s9 = peg$c24;
+              if (input.substr(peg$currPos, 2) === peg$c34) {
+                s9 = peg$c34;
                 peg$currPos += 2;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e32); }
+                if (peg$silentFails === 0) { peg$fail(peg$e44); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse__();
@@ -1512,7 +1963,7 @@ function peg$parse(input, options) {
                   s11 = peg$parseNameRef();
                   if (s11 !== peg$FAILED) {
                     peg$savedPos = s0;
-                    s0 = peg$f17(s3, s7, s11);
+                    s0 = peg$f22(s3, s7, s11);
                   } else {
                     peg$currPos = s0;
                     s0 = peg$FAILED;
@@ -1570,7 +2021,7 @@ function peg$parse(input, options) {
         s7 = peg$parseMove();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f18(s1, s7);
+          s3 = peg$f23(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -1595,7 +2046,7 @@ function peg$parse(input, options) {
           s7 = peg$parseMove();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f18(s1, s7);
+            s3 = peg$f23(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -1606,7 +2057,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f19(s1, s2);
+      s0 = peg$f24(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -1623,21 +2074,21 @@ function peg$parse(input, options) {
     s1 = peg$parseNameRef();
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
-      if (input.substr(peg$currPos, 2) === peg$c25) {
-        s3 = peg$c25;
+      if (input.substr(peg$currPos, 2) === peg$c35) {
+        s3 = peg$c35;
         peg$currPos += 2;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e34); }
+        if (peg$silentFails === 0) { peg$fail(peg$e46); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$parse_();
-        if (input.substr(peg$currPos, 8) === peg$c26) {
-          s5 = peg$c26;
+        if (input.substr(peg$currPos, 8) === peg$c36) {
+          s5 = peg$c36;
           peg$currPos += 8;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e35); }
+          if (peg$silentFails === 0) { peg$fail(peg$e47); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$currPos;
@@ -1652,7 +2103,7 @@ function peg$parse(input, options) {
           }
           if (s6 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f20(s1);
+            s0 = peg$f25(s1);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -1674,19 +2125,19 @@ function peg$parse(input, options) {
       s1 = peg$parseNameRef();
       if (s1 !== peg$FAILED) {
         s2 = peg$parse_();
-        if (input.substr(peg$currPos, 2) === peg$c25) {
-          s3 = peg$c25;
+        if (input.substr(peg$currPos, 2) === peg$c35) {
+          s3 = peg$c35;
           peg$currPos += 2;
         } else {
           s3 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e34); }
+          if (peg$silentFails === 0) { peg$fail(peg$e46); }
         }
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           s5 = peg$parseSum();
           if (s5 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f21(s1, s5);
+            s0 = peg$f26(s1, s5);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -1703,7 +2154,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e33); }
+      if (peg$silentFails === 0) { peg$fail(peg$e45); }
     }
 
     return s0;
@@ -1713,12 +2164,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11, s12;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 8) === peg$c27) {
-      s1 = peg$c27;
+    if (input.substr(peg$currPos, 8) === peg$c37) {
+      s1 = peg$c37;
       peg$currPos += 8;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e36); }
+      if (peg$silentFails === 0) { peg$fail(peg$e48); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1738,12 +2189,12 @@ function peg$parse(input, options) {
             s7 = peg$parseParamTuple();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 5) === peg$c28) {
-                s9 = peg$c28;
+              if (input.substr(peg$currPos, 5) === peg$c38) {
+                s9 = peg$c38;
                 peg$currPos += 5;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e37); }
+                if (peg$silentFails === 0) { peg$fail(peg$e49); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse__();
@@ -1755,7 +2206,7 @@ function peg$parse(input, options) {
                       s12 = null;
                     }
                     peg$savedPos = s0;
-                    s0 = peg$f22(s3, s7, s11, s12);
+                    s0 = peg$f27(s3, s7, s11, s12);
                   } else {
                     peg$currPos = s0;
                     s0 = peg$FAILED;
@@ -1818,7 +2269,7 @@ function peg$parse(input, options) {
         }
         if (s5 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f23(s3);
+          s0 = peg$f28(s3);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -1836,14 +2287,14 @@ function peg$parse(input, options) {
       s1 = peg$parseNameRef();
       if (s1 !== peg$FAILED) {
         peg$savedPos = s0;
-        s1 = peg$f24(s1);
+        s1 = peg$f29(s1);
       }
       s0 = s1;
     }
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e38); }
+      if (peg$silentFails === 0) { peg$fail(peg$e50); }
     }
 
     return s0;
@@ -1858,19 +2309,19 @@ function peg$parse(input, options) {
       s2 = [];
       s3 = peg$currPos;
       s4 = peg$parse_();
-      if (input.substr(peg$currPos, 2) === peg$c25) {
-        s5 = peg$c25;
+      if (input.substr(peg$currPos, 2) === peg$c35) {
+        s5 = peg$c35;
         peg$currPos += 2;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e34); }
+        if (peg$silentFails === 0) { peg$fail(peg$e46); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parsePathPoint();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f25(s1, s7);
+          s3 = peg$f30(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -1884,19 +2335,19 @@ function peg$parse(input, options) {
           s2.push(s3);
           s3 = peg$currPos;
           s4 = peg$parse_();
-          if (input.substr(peg$currPos, 2) === peg$c25) {
-            s5 = peg$c25;
+          if (input.substr(peg$currPos, 2) === peg$c35) {
+            s5 = peg$c35;
             peg$currPos += 2;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e34); }
+            if (peg$silentFails === 0) { peg$fail(peg$e46); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
             s7 = peg$parsePathPoint();
             if (s7 !== peg$FAILED) {
               peg$savedPos = s3;
-              s3 = peg$f25(s1, s7);
+              s3 = peg$f30(s1, s7);
             } else {
               peg$currPos = s3;
               s3 = peg$FAILED;
@@ -1911,7 +2362,7 @@ function peg$parse(input, options) {
       }
       if (s2 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f26(s1, s2);
+        s0 = peg$f31(s1, s2);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1955,7 +2406,7 @@ function peg$parse(input, options) {
           s9 = peg$parseSum();
           if (s9 !== peg$FAILED) {
             peg$savedPos = s5;
-            s5 = peg$f27(s3, s9);
+            s5 = peg$f32(s3, s9);
           } else {
             peg$currPos = s5;
             s5 = peg$FAILED;
@@ -1981,7 +2432,7 @@ function peg$parse(input, options) {
               s9 = peg$parseSum();
               if (s9 !== peg$FAILED) {
                 peg$savedPos = s5;
-                s5 = peg$f27(s3, s9);
+                s5 = peg$f32(s3, s9);
               } else {
                 peg$currPos = s5;
                 s5 = peg$FAILED;
@@ -2005,7 +2456,7 @@ function peg$parse(input, options) {
           }
           if (s6 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f28(s3, s4);
+            s0 = peg$f33(s3, s4);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -2027,14 +2478,14 @@ function peg$parse(input, options) {
       s1 = peg$parseSum();
       if (s1 !== peg$FAILED) {
         peg$savedPos = s0;
-        s1 = peg$f29(s1);
+        s1 = peg$f34(s1);
       }
       s0 = s1;
     }
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e39); }
+      if (peg$silentFails === 0) { peg$fail(peg$e51); }
     }
 
     return s0;
@@ -2046,12 +2497,12 @@ function peg$parse(input, options) {
     s0 = peg$currPos;
     s1 = peg$parse__();
     if (s1 !== peg$FAILED) {
-      if (input.substr(peg$currPos, 2) === peg$c29) {
-        s2 = peg$c29;
+      if (input.substr(peg$currPos, 2) === peg$c39) {
+        s2 = peg$c39;
         peg$currPos += 2;
       } else {
         s2 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e40); }
+        if (peg$silentFails === 0) { peg$fail(peg$e52); }
       }
       if (s2 !== peg$FAILED) {
         s3 = peg$parse__();
@@ -2059,7 +2510,7 @@ function peg$parse(input, options) {
           s4 = peg$parseBindingList();
           if (s4 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f30(s4);
+            s0 = peg$f35(s4);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -2101,7 +2552,7 @@ function peg$parse(input, options) {
         s7 = peg$parseBinding();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f31(s1, s7);
+          s3 = peg$f36(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2126,7 +2577,7 @@ function peg$parse(input, options) {
           s7 = peg$parseBinding();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f31(s1, s7);
+            s3 = peg$f36(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -2137,7 +2588,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f32(s1, s2);
+      s0 = peg$f37(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2166,7 +2617,7 @@ function peg$parse(input, options) {
         s5 = peg$parseSum();
         if (s5 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f33(s1, s5);
+          s0 = peg$f38(s1, s5);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2182,7 +2633,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e41); }
+      if (peg$silentFails === 0) { peg$fail(peg$e53); }
     }
 
     return s0;
@@ -2192,12 +2643,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 7) === peg$c30) {
-      s1 = peg$c30;
+    if (input.substr(peg$currPos, 7) === peg$c40) {
+      s1 = peg$c40;
       peg$currPos += 7;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e42); }
+      if (peg$silentFails === 0) { peg$fail(peg$e54); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -2206,12 +2657,12 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse__();
           if (s4 !== peg$FAILED) {
-            if (input.substr(peg$currPos, 4) === peg$c31) {
-              s5 = peg$c31;
+            if (input.substr(peg$currPos, 4) === peg$c41) {
+              s5 = peg$c41;
               peg$currPos += 4;
             } else {
               s5 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e43); }
+              if (peg$silentFails === 0) { peg$fail(peg$e55); }
             }
             if (s5 !== peg$FAILED) {
               s6 = peg$parse__();
@@ -2219,7 +2670,7 @@ function peg$parse(input, options) {
                 s7 = peg$parseNameRef();
                 if (s7 !== peg$FAILED) {
                   peg$savedPos = s0;
-                  s0 = peg$f34(s3, s7);
+                  s0 = peg$f39(s3, s7);
                 } else {
                   peg$currPos = s0;
                   s0 = peg$FAILED;
@@ -2256,12 +2707,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c32) {
-      s1 = peg$c32;
+    if (input.substr(peg$currPos, 6) === peg$c42) {
+      s1 = peg$c42;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e44); }
+      if (peg$silentFails === 0) { peg$fail(peg$e56); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -2277,7 +2728,7 @@ function peg$parse(input, options) {
             s5 = null;
           }
           peg$savedPos = s0;
-          s0 = peg$f35(s3, s4, s5);
+          s0 = peg$f40(s3, s4, s5);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2300,22 +2751,22 @@ function peg$parse(input, options) {
     s0 = peg$currPos;
     s1 = peg$parse__();
     if (s1 !== peg$FAILED) {
-      if (input.substr(peg$currPos, 4) === peg$c31) {
-        s2 = peg$c31;
+      if (input.substr(peg$currPos, 4) === peg$c41) {
+        s2 = peg$c41;
         peg$currPos += 4;
       } else {
         s2 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e43); }
+        if (peg$silentFails === 0) { peg$fail(peg$e55); }
       }
       if (s2 !== peg$FAILED) {
         s3 = peg$parse__();
         if (s3 !== peg$FAILED) {
-          if (input.substr(peg$currPos, 9) === peg$c33) {
-            s4 = peg$c33;
+          if (input.substr(peg$currPos, 9) === peg$c43) {
+            s4 = peg$c43;
             peg$currPos += 9;
           } else {
             s4 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e45); }
+            if (peg$silentFails === 0) { peg$fail(peg$e57); }
           }
           if (s4 !== peg$FAILED) {
             s5 = peg$parse__();
@@ -2326,7 +2777,7 @@ function peg$parse(input, options) {
               }
               if (s6 !== peg$FAILED) {
                 peg$savedPos = s0;
-                s0 = peg$f36(s6);
+                s0 = peg$f41(s6);
               } else {
                 peg$currPos = s0;
                 s0 = peg$FAILED;
@@ -2364,21 +2815,21 @@ function peg$parse(input, options) {
     s2 = peg$currPos;
     s3 = [];
     s4 = input.charAt(peg$currPos);
-    if (peg$r2.test(s4)) {
+    if (peg$r3.test(s4)) {
       peg$currPos++;
     } else {
       s4 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e47); }
+      if (peg$silentFails === 0) { peg$fail(peg$e59); }
     }
     if (s4 !== peg$FAILED) {
       while (s4 !== peg$FAILED) {
         s3.push(s4);
         s4 = input.charAt(peg$currPos);
-        if (peg$r2.test(s4)) {
+        if (peg$r3.test(s4)) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e47); }
+          if (peg$silentFails === 0) { peg$fail(peg$e59); }
         }
       }
     } else {
@@ -2387,30 +2838,30 @@ function peg$parse(input, options) {
     if (s3 !== peg$FAILED) {
       s4 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s5 = peg$c34;
+        s5 = peg$c44;
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e48); }
+        if (peg$silentFails === 0) { peg$fail(peg$e60); }
       }
       if (s5 !== peg$FAILED) {
         s6 = [];
         s7 = input.charAt(peg$currPos);
-        if (peg$r2.test(s7)) {
+        if (peg$r3.test(s7)) {
           peg$currPos++;
         } else {
           s7 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e47); }
+          if (peg$silentFails === 0) { peg$fail(peg$e59); }
         }
         if (s7 !== peg$FAILED) {
           while (s7 !== peg$FAILED) {
             s6.push(s7);
             s7 = input.charAt(peg$currPos);
-            if (peg$r2.test(s7)) {
+            if (peg$r3.test(s7)) {
               peg$currPos++;
             } else {
               s7 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e47); }
+              if (peg$silentFails === 0) { peg$fail(peg$e59); }
             }
           }
         } else {
@@ -2431,40 +2882,40 @@ function peg$parse(input, options) {
         s4 = null;
       }
       s5 = input.charAt(peg$currPos);
-      if (peg$r3.test(s5)) {
+      if (peg$r4.test(s5)) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e49); }
+        if (peg$silentFails === 0) { peg$fail(peg$e61); }
       }
       if (s5 !== peg$FAILED) {
         if (input.charCodeAt(peg$currPos) === 45) {
-          s6 = peg$c35;
+          s6 = peg$c45;
           peg$currPos++;
         } else {
           s6 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e50); }
+          if (peg$silentFails === 0) { peg$fail(peg$e62); }
         }
         if (s6 === peg$FAILED) {
           s6 = null;
         }
         s7 = [];
         s8 = input.charAt(peg$currPos);
-        if (peg$r2.test(s8)) {
+        if (peg$r3.test(s8)) {
           peg$currPos++;
         } else {
           s8 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e47); }
+          if (peg$silentFails === 0) { peg$fail(peg$e59); }
         }
         if (s8 !== peg$FAILED) {
           while (s8 !== peg$FAILED) {
             s7.push(s8);
             s8 = input.charAt(peg$currPos);
-            if (peg$r2.test(s8)) {
+            if (peg$r3.test(s8)) {
               peg$currPos++;
             } else {
               s8 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e47); }
+              if (peg$silentFails === 0) { peg$fail(peg$e59); }
             }
           }
         } else {
@@ -2492,13 +2943,13 @@ function peg$parse(input, options) {
     }
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f37(s1);
+      s1 = peg$f42(s1);
     }
     s0 = s1;
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e46); }
+      if (peg$silentFails === 0) { peg$fail(peg$e58); }
     }
 
     return s0;
@@ -2508,12 +2959,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 5) === peg$c36) {
-      s1 = peg$c36;
+    if (input.substr(peg$currPos, 5) === peg$c46) {
+      s1 = peg$c46;
       peg$currPos += 5;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e51); }
+      if (peg$silentFails === 0) { peg$fail(peg$e63); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -2533,19 +2984,19 @@ function peg$parse(input, options) {
             s7 = peg$parseNameRef();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 2) === peg$c25) {
-                s9 = peg$c25;
+              if (input.substr(peg$currPos, 2) === peg$c35) {
+                s9 = peg$c35;
                 peg$currPos += 2;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e34); }
+                if (peg$silentFails === 0) { peg$fail(peg$e46); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse_();
                 s11 = peg$parseLimitPoint();
                 if (s11 !== peg$FAILED) {
                   peg$savedPos = s0;
-                  s0 = peg$f38(s3, s7, s11);
+                  s0 = peg$f43(s3, s7, s11);
                 } else {
                   peg$currPos = s0;
                   s0 = peg$FAILED;
@@ -2584,20 +3035,20 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 45) {
-      s1 = peg$c35;
+      s1 = peg$c45;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e50); }
+      if (peg$silentFails === 0) { peg$fail(peg$e62); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
-      if (input.substr(peg$currPos, 3) === peg$c37) {
-        s3 = peg$c37;
+      if (input.substr(peg$currPos, 3) === peg$c47) {
+        s3 = peg$c47;
         peg$currPos += 3;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e53); }
+        if (peg$silentFails === 0) { peg$fail(peg$e65); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$currPos;
@@ -2612,7 +3063,7 @@ function peg$parse(input, options) {
         }
         if (s4 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f39();
+          s0 = peg$f44();
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2627,12 +3078,12 @@ function peg$parse(input, options) {
     }
     if (s0 === peg$FAILED) {
       s0 = peg$currPos;
-      if (input.substr(peg$currPos, 3) === peg$c37) {
-        s1 = peg$c37;
+      if (input.substr(peg$currPos, 3) === peg$c47) {
+        s1 = peg$c47;
         peg$currPos += 3;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e53); }
+        if (peg$silentFails === 0) { peg$fail(peg$e65); }
       }
       if (s1 !== peg$FAILED) {
         s2 = peg$currPos;
@@ -2647,7 +3098,7 @@ function peg$parse(input, options) {
         }
         if (s2 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f40();
+          s0 = peg$f45();
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2663,7 +3114,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e52); }
+      if (peg$silentFails === 0) { peg$fail(peg$e64); }
     }
 
     return s0;
@@ -2687,18 +3138,18 @@ function peg$parse(input, options) {
       s3 = peg$currPos;
       s4 = peg$parse_();
       s5 = input.charAt(peg$currPos);
-      if (peg$r4.test(s5)) {
+      if (peg$r5.test(s5)) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e54); }
+        if (peg$silentFails === 0) { peg$fail(peg$e66); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parseProduct();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f41(s1, s5, s7);
+          s3 = peg$f46(s1, s5, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2712,18 +3163,18 @@ function peg$parse(input, options) {
         s3 = peg$currPos;
         s4 = peg$parse_();
         s5 = input.charAt(peg$currPos);
-        if (peg$r4.test(s5)) {
+        if (peg$r5.test(s5)) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e54); }
+          if (peg$silentFails === 0) { peg$fail(peg$e66); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$parse_();
           s7 = peg$parseProduct();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f41(s1, s5, s7);
+            s3 = peg$f46(s1, s5, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -2734,7 +3185,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f42(s1, s2);
+      s0 = peg$f47(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2753,18 +3204,18 @@ function peg$parse(input, options) {
       s3 = peg$currPos;
       s4 = peg$parse_();
       s5 = input.charAt(peg$currPos);
-      if (peg$r5.test(s5)) {
+      if (peg$r6.test(s5)) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e55); }
+        if (peg$silentFails === 0) { peg$fail(peg$e67); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parseUnary();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f43(s1, s5, s7);
+          s3 = peg$f48(s1, s5, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2778,18 +3229,18 @@ function peg$parse(input, options) {
         s3 = peg$currPos;
         s4 = peg$parse_();
         s5 = input.charAt(peg$currPos);
-        if (peg$r5.test(s5)) {
+        if (peg$r6.test(s5)) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e55); }
+          if (peg$silentFails === 0) { peg$fail(peg$e67); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$parse_();
           s7 = peg$parseUnary();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f43(s1, s5, s7);
+            s3 = peg$f48(s1, s5, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -2800,7 +3251,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f44(s1, s2);
+      s0 = peg$f49(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2814,18 +3265,18 @@ function peg$parse(input, options) {
 
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 45) {
-      s1 = peg$c35;
+      s1 = peg$c45;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e50); }
+      if (peg$silentFails === 0) { peg$fail(peg$e62); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       s3 = peg$parseUnary();
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f45(s3);
+        s0 = peg$f50(s3);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -2837,18 +3288,18 @@ function peg$parse(input, options) {
     if (s0 === peg$FAILED) {
       s0 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 43) {
-        s1 = peg$c38;
+        s1 = peg$c48;
         peg$currPos++;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e56); }
+        if (peg$silentFails === 0) { peg$fail(peg$e68); }
       }
       if (s1 !== peg$FAILED) {
         s2 = peg$parse_();
         s3 = peg$parseUnary();
         if (s3 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f46(s3);
+          s0 = peg$f51(s3);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2874,18 +3325,18 @@ function peg$parse(input, options) {
       s2 = peg$currPos;
       s3 = peg$parse_();
       if (input.charCodeAt(peg$currPos) === 94) {
-        s4 = peg$c39;
+        s4 = peg$c49;
         peg$currPos++;
       } else {
         s4 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e57); }
+        if (peg$silentFails === 0) { peg$fail(peg$e69); }
       }
       if (s4 !== peg$FAILED) {
         s5 = peg$parse_();
         s6 = peg$parseUnary();
         if (s6 !== peg$FAILED) {
           peg$savedPos = s2;
-          s2 = peg$f47(s1, s6);
+          s2 = peg$f52(s1, s6);
         } else {
           peg$currPos = s2;
           s2 = peg$FAILED;
@@ -2898,7 +3349,7 @@ function peg$parse(input, options) {
         s2 = null;
       }
       peg$savedPos = s0;
-      s0 = peg$f48(s1, s2);
+      s0 = peg$f53(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2938,7 +3389,7 @@ function peg$parse(input, options) {
               }
               if (s5 !== peg$FAILED) {
                 peg$savedPos = s0;
-                s0 = peg$f49(s3);
+                s0 = peg$f54(s3);
               } else {
                 peg$currPos = s0;
                 s0 = peg$FAILED;
@@ -2986,7 +3437,7 @@ function peg$parse(input, options) {
           }
           if (s7 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f50(s1, s5);
+            s0 = peg$f55(s1, s5);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -3028,7 +3479,7 @@ function peg$parse(input, options) {
         s7 = peg$parseSum();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f51(s1, s7);
+          s3 = peg$f56(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -3053,7 +3504,7 @@ function peg$parse(input, options) {
           s7 = peg$parseSum();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f51(s1, s7);
+            s3 = peg$f56(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -3064,7 +3515,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f52(s1, s2);
+      s0 = peg$f57(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -3106,7 +3557,7 @@ function peg$parse(input, options) {
       }
       if (s2 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f53(s1);
+        s0 = peg$f58(s1);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -3128,21 +3579,21 @@ function peg$parse(input, options) {
     s2 = peg$currPos;
     s3 = [];
     s4 = input.charAt(peg$currPos);
-    if (peg$r2.test(s4)) {
+    if (peg$r3.test(s4)) {
       peg$currPos++;
     } else {
       s4 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e47); }
+      if (peg$silentFails === 0) { peg$fail(peg$e59); }
     }
     if (s4 !== peg$FAILED) {
       while (s4 !== peg$FAILED) {
         s3.push(s4);
         s4 = input.charAt(peg$currPos);
-        if (peg$r2.test(s4)) {
+        if (peg$r3.test(s4)) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e47); }
+          if (peg$silentFails === 0) { peg$fail(peg$e59); }
         }
       }
     } else {
@@ -3151,30 +3602,30 @@ function peg$parse(input, options) {
     if (s3 !== peg$FAILED) {
       s4 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s5 = peg$c34;
+        s5 = peg$c44;
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e48); }
+        if (peg$silentFails === 0) { peg$fail(peg$e60); }
       }
       if (s5 !== peg$FAILED) {
         s6 = [];
         s7 = input.charAt(peg$currPos);
-        if (peg$r2.test(s7)) {
+        if (peg$r3.test(s7)) {
           peg$currPos++;
         } else {
           s7 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e47); }
+          if (peg$silentFails === 0) { peg$fail(peg$e59); }
         }
         if (s7 !== peg$FAILED) {
           while (s7 !== peg$FAILED) {
             s6.push(s7);
             s7 = input.charAt(peg$currPos);
-            if (peg$r2.test(s7)) {
+            if (peg$r3.test(s7)) {
               peg$currPos++;
             } else {
               s7 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e47); }
+              if (peg$silentFails === 0) { peg$fail(peg$e59); }
             }
           }
         } else {
@@ -3203,30 +3654,30 @@ function peg$parse(input, options) {
     if (s2 === peg$FAILED) {
       s2 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s3 = peg$c34;
+        s3 = peg$c44;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e48); }
+        if (peg$silentFails === 0) { peg$fail(peg$e60); }
       }
       if (s3 !== peg$FAILED) {
         s4 = [];
         s5 = input.charAt(peg$currPos);
-        if (peg$r2.test(s5)) {
+        if (peg$r3.test(s5)) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e47); }
+          if (peg$silentFails === 0) { peg$fail(peg$e59); }
         }
         if (s5 !== peg$FAILED) {
           while (s5 !== peg$FAILED) {
             s4.push(s5);
             s5 = input.charAt(peg$currPos);
-            if (peg$r2.test(s5)) {
+            if (peg$r3.test(s5)) {
               peg$currPos++;
             } else {
               s5 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e47); }
+              if (peg$silentFails === 0) { peg$fail(peg$e59); }
             }
           }
         } else {
@@ -3251,13 +3702,13 @@ function peg$parse(input, options) {
     }
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f54(s1);
+      s1 = peg$f59(s1);
     }
     s0 = s1;
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e46); }
+      if (peg$silentFails === 0) { peg$fail(peg$e58); }
     }
 
     return s0;
@@ -3270,7 +3721,7 @@ function peg$parse(input, options) {
     s1 = peg$parseIdentifier();
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f55(s1);
+      s1 = peg$f60(s1);
     }
     s0 = s1;
 
@@ -3284,11 +3735,11 @@ function peg$parse(input, options) {
     s0 = peg$currPos;
     s1 = peg$currPos;
     s2 = input.charAt(peg$currPos);
-    if (peg$r6.test(s2)) {
+    if (peg$r7.test(s2)) {
       peg$currPos++;
     } else {
       s2 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e59); }
+      if (peg$silentFails === 0) { peg$fail(peg$e71); }
     }
     if (s2 !== peg$FAILED) {
       s3 = [];
@@ -3311,7 +3762,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e58); }
+      if (peg$silentFails === 0) { peg$fail(peg$e70); }
     }
 
     return s0;
@@ -3321,11 +3772,11 @@ function peg$parse(input, options) {
     let s0;
 
     s0 = input.charAt(peg$currPos);
-    if (peg$r7.test(s0)) {
+    if (peg$r8.test(s0)) {
       peg$currPos++;
     } else {
       s0 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e60); }
+      if (peg$silentFails === 0) { peg$fail(peg$e72); }
     }
 
     return s0;
@@ -3337,21 +3788,21 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = [];
     s1 = input.charAt(peg$currPos);
-    if (peg$r8.test(s1)) {
+    if (peg$r9.test(s1)) {
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e62); }
+      if (peg$silentFails === 0) { peg$fail(peg$e74); }
     }
     if (s1 !== peg$FAILED) {
       while (s1 !== peg$FAILED) {
         s0.push(s1);
         s1 = input.charAt(peg$currPos);
-        if (peg$r8.test(s1)) {
+        if (peg$r9.test(s1)) {
           peg$currPos++;
         } else {
           s1 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e62); }
+          if (peg$silentFails === 0) { peg$fail(peg$e74); }
         }
       }
     } else {
@@ -3360,7 +3811,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e61); }
+      if (peg$silentFails === 0) { peg$fail(peg$e73); }
     }
 
     return s0;
@@ -3371,20 +3822,20 @@ function peg$parse(input, options) {
 
     s0 = [];
     s1 = input.charAt(peg$currPos);
-    if (peg$r8.test(s1)) {
+    if (peg$r9.test(s1)) {
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e62); }
+      if (peg$silentFails === 0) { peg$fail(peg$e74); }
     }
     while (s1 !== peg$FAILED) {
       s0.push(s1);
       s1 = input.charAt(peg$currPos);
-      if (peg$r8.test(s1)) {
+      if (peg$r9.test(s1)) {
         peg$currPos++;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e62); }
+        if (peg$silentFails === 0) { peg$fail(peg$e74); }
       }
     }
 

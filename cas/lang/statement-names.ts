@@ -67,5 +67,10 @@ export function statementNames(s: Statement): StatementNames {
       return { defined: [s.name.name], used: [s.target.name], variables: [] };
     case 'derivative':
       return { defined: [s.name.name], used: uniq([s.param.name, ...namesIn([s.expr])]), variables: [] };
+    case 'product':
+      return { defined: [s.name.name], used: namesIn([s.factor], new Set([s.index.name])), variables: [s.index.name] };
+    case 'determinant':
+      // t is the potential's variable
+      return { defined: [s.name.name], used: namesIn([s.potential, s.length], new Set(['t'])), variables: ['t'] };
   }
 }

@@ -85,6 +85,8 @@ export function checkStatementNames(s: Statement): ParseError | null {
     case 'limit': return s.to === 'inf' || s.to === '-inf' ? null : checkExprNames(s.to);
     case 'moment': return checkName(s.name) ?? checkExprNames(s.expr);
     case 'derivative': return checkName(s.name) ?? checkExprNames(s.expr);
+    case 'product': return checkName(s.name) ?? checkName(s.index) ?? checkExprNames(s.factor);
+    case 'determinant': return checkName(s.name) ?? checkExprNames(s.potential) ?? checkExprNames(s.length);
     default: return null;
   }
 }

@@ -349,6 +349,60 @@ function derivative(s: StepOf<'derivative'>): RenderedStep {
   };
 }
 
+const MODE_RANGE = { 0: (n: string) => `${n} >= 0`, 1: (n: string) => `${n} >= 1`, all: (n: string) => `all integers ${n}` } as const;
+const MODE_RANGE_TEX = { 0: (n: string) => `${n} \\geq 0`, 1: (n: string) => `${n} \\geq 1`, all: (n: string) => `${n} \\in \\mathbb{Z}` } as const;
+
+function regularisation(s: StepOf<'regularisation'>): RenderedStep {
+  const lam = `lambda_${s.index} = ${s.factor.text}`;
+  const how = s.decided === 'sampled' ? ' (the sign of Im u read at sample points of the declared domain, not proved)' : '';
+  const branch = {
+    principal: 'lambda^-s = exp(-s*log(lambda)) with the principal logarithm of each linear factor and of the leading coefficient',
+    upper: `every ${lam} lies in the upper half plane (Im u > 0${how}), and lambda^-s takes arguments in (0, pi): a cut along the negative imaginary axis, which no mode meets; on the other side (Im u < 0) the same product is 1 - exp(-2*pi*i*u)`,
+    lower: `every ${lam} lies in the lower half plane (Im u < 0${how}), and lambda^-s takes arguments in (-pi, 0): a cut along the positive imaginary axis, which no mode meets; on the other side (Im u > 0) the same product is 1 - exp(2*pi*i*u)`,
+  }[s.branch];
+  return {
+    text: `Choice: the product of ${lam} over ${MODE_RANGE[s.from](s.index)} diverges and is defined by zeta regularisation, prod lambda_${s.index} = exp(-zeta'(0)) with zeta(s) = sum lambda_${s.index}^-s continued from Re s large to s = 0 (Hurwitz zeta functions); ${branch}; zeta(0) = ${s.zetaAtZero.text}, the power a constant factor of lambda enters with. Another regularisation (a cutoff, or another splitting of the modes) can differ by a local factor.`,
+    latex: `\\prod_{${MODE_RANGE_TEX[s.from](s.index)}} \\lambda_{${s.index}} := e^{-\\zeta'(0)},\\quad \\zeta(0) = ${s.zetaAtZero.latex}`,
+  };
+}
+
+function modeProduct(s: StepOf<'mode-product'>): RenderedStep {
+  const split = s.shifts.length ? `${s.leading.text === '1' ? '' : `${s.leading.text} * `}${s.shifts.map((b) => (b.text === '0' ? 'n' : b.text.startsWith('-') ? `(n - ${b.text.slice(1)})` : `(n + ${b.text})`)).join(' * ')}` : s.leading.text;
+  const uses = s.formulas.map((f) => ({
+    lerch: 'Lerch\'s formula prod over n >= 0 of (n + b) = sqrt(2*pi)/Gamma(b)',
+    reflection: 'the reflection formula Gamma(1 + x)*Gamma(1 - x) = pi*x/sin(pi*x)',
+    'all-integers': 'zeta(s) = zeta(s, u) + exp(-+i*pi*s)*zeta(s, 1 - u) (Hurwitz) with zeta(0, a) = 1/2 - a and zeta\'(0, a) = log(Gamma(a)/sqrt(2*pi))',
+  }[f]));
+  const anomaly = {
+    linear: 'The factor is linear in n, so no multiplicative anomaly arises',
+    'split-polynomial': 'No multiplicative anomaly: for a polynomial in n in one dimension the regularised product of P equals leading^zeta(0) times the product of the regularised products of its linear factors (the Hurwitz expansion of zeta_P(s) gives no extra term; confirmed numerically against the zeta function of P itself in the tests, e.g. for (n + 0.3)(n + 1.7) and n^2 + a^2). In higher dimensions, or for operators rather than sequences, such a splitting can carry a multiplicative anomaly',
+    'all-integers': 'Over all integers the factor is linear in n and zeta(0) = 0, so a constant factor of the modes does not change the product and no multiplicative anomaly arises',
+    'all-integers-quadratic': 'Over all integers zeta(s) = q^-s + 2*zeta_{n>=1}(s) for P = c*(n^2 + q), so zeta(0) = 0 and P is not split. Warning, multiplicative anomaly: the regularised products of the linear factors n + x and n - x (x^2 = -q, Im x > 0) multiply to (1 - exp(2*pi*i*x))^2, which is this product times exp(2*pi*i*x), not this product; the product of the quadratic is the zeta-regularised determinant of the second-order operator (-d^2/dt^2 + y^2 on a circle of length 2*pi, periodic, for q = y^2), the product of the linear ones that of the two first-order operators',
+  }[s.anomaly];
+  const v = s.value ? ` ${complexApprox(s.value, 15)}` : '';
+  return {
+    text: `P(n) = ${split}; by ${list(uses)}, ${s.name} = ${s.result.text}${v}, exactly. ${anomaly}.`,
+    latex: `${s.name} = ${s.result.latex}`,
+  };
+}
+
+function functionalDeterminant(s: StepOf<'functional-determinant'>): RenderedStep {
+  const op = `-d^2/dt^2 + ${s.potential.text}`;
+  const where = s.shape === 'interval'
+    ? `on [0, ${s.length.text}] with Dirichlet ends, as the ratio det(${op})/det(-d^2/dt^2) = y(${s.length.text})/${/^[\w.]+$/.test(s.length.text) ? s.length.text : `(${s.length.text})`} with y'' = V y, y(0) = 0, y'(0) = 1 (Gel'fand-Yaglom)`
+    : `on a circle of length ${s.length.text}, ${s.conditions}, zeta-regularised: det = ${s.conditions === 'periodic' ? 'tr M - 2' : 'tr M + 2'} with M the monodromy of y'' = V y over one turn (for V = w^2, ${s.conditions === 'periodic' ? '4*sinh(beta*w/2)^2' : '4*cosh(beta*w/2)^2'})`;
+  const value = s.value ? complexApprox(s.value, 15) : '';
+  const res = s.zeroMode
+    ? `= 0: the constant is a zero mode (it solves the equation with these ends); removed, the determinant of the other modes is det' = ${s.zeroMode.reduced.text} (the limit of 4*sinh(beta*w/2)^2/w^2 as w -> 0), exactly`
+    : s.method === 'exact'
+    ? `= ${s.result?.text ?? ''}${value ? ` ${value}` : ''}, exactly (V constant; the formula is even in sqrt(V), so no branch of the square root is chosen)`
+    : `${value}, by integrating y'' = V y with fourth-order Runge-Kutta, halving the step until two solves agree (${plural(s.ode?.steps ?? 0, 'step')}, relative difference ${approx(s.ode?.difference ?? 0, 3)}; numeric, not proved)`;
+  return {
+    text: `${s.name}: det(${op}) ${where} ${res}.`,
+    latex: `${s.name} = ${s.result?.latex ?? (s.value ? complexApproxLatex(s.value, 12) : '')}`,
+  };
+}
+
 function variables(s: StepOf<'variables'>): RenderedStep {
   const parts: string[] = [];
   if (s.complex.length) parts.push(`${list(s.complex.map((z) => z.name))} ${s.complex.length > 1 ? 'are complex variables' : 'is a complex variable'}, written ${s.complex.map((z) => `${z.name} = ${z.re} + i*${z.im}`).join(', ')} with the measure d^2z = dx dy for each (as forms dz^dzbar = -2i dx^dy, so a convention with dz dzbar multiplies the result by (-2i)^${s.complex.length}, and one with d^2z = 2 dx dy by 2^${s.complex.length})`);
@@ -440,5 +494,8 @@ export function renderStep(step: Step): RenderedStep {
     case 'derivative': return derivative(step);
     case 'variables': return variables(step);
     case 'berezin': return berezin(step);
+    case 'regularisation': return regularisation(step);
+    case 'mode-product': return modeProduct(step);
+    case 'functional-determinant': return functionalDeterminant(step);
   }
 }

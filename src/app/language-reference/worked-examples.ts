@@ -16,6 +16,8 @@ const PRELUDE: Record<StatementKeyword, string[]> = {
   limit: ['param k : positive', 'integral Z = exp(-k*x^2/2) d(x)'],
   moment: ['param k : positive', 'integral Z = exp(-k*x^2/2) d(x)'],
   derivative: ['param beta : positive', 'integral Z = exp(-beta*x^2/2) d(x)'],
+  product: ['param a : positive'],
+  determinant: ['param w, L : positive'],
   note: [],
 };
 

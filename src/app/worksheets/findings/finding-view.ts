@@ -24,6 +24,8 @@ const KIND_WORDS: Record<StatementReport['kind'], string> = {
   limit: 'Limit',
   moment: 'Moment',
   derivative: 'Derivative',
+  product: 'Mode product',
+  determinant: 'Functional determinant',
   invalid: 'Not understood',
 };
 
