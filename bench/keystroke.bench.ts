@@ -6,7 +6,7 @@ import { DEMO } from '../test/support/api-client.js';
 import { launchBrowser, signIn } from '../test/support/browser.js';
 import { startTestServer } from '../test/support/test-server.js';
 
-const server = await startTestServer({ CLIENT_DIR: 'dist/sheetwise/browser' });
+const server = await startTestServer({ CLIENT_DIR: process.env['BENCH_CLIENT_DIR'] ?? 'dist/sheetwise/browser' });
 const browser = await launchBrowser();
 const times: number[] = [];
 try {

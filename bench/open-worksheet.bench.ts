@@ -8,7 +8,7 @@ import { startTestServer } from '../test/support/test-server.js';
 
 const AIM_MS = 1000;
 const RUNS = 10;
-const server = await startTestServer({ CLIENT_DIR: 'dist/sheetwise/browser' });
+const server = await startTestServer({ CLIENT_DIR: process.env['BENCH_CLIENT_DIR'] ?? 'dist/sheetwise/browser' });
 const browser = await launchBrowser();
 const times: number[] = [];
 let evaluations = 0;

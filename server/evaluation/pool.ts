@@ -5,6 +5,9 @@ import type { Logger } from '../logger.js';
 import { HttpError } from '../middleware/http-error.js';
 import { fairnessSettings, type FairnessSettings } from './fairness-settings.js';
 import type { EvaluationTask, WorkerMessage } from './worker.js';
+import { ReuseCache } from './reuse.js';
+// @ts-expect-error a plain JavaScript module (the worker's entry reads it too)
+import { ensureWorkerBundle } from './worker-bundle.mjs';
 
 const WORKER_URL = new URL('./worker-entry.mjs', import.meta.url);
 
@@ -73,6 +76,8 @@ export interface PoolOptions {
   logger?: Pick<Logger, 'error'>;
   /** Budgets, caps and sizes (default: from the environment, see fairness-settings.ts). */
   fairness?: Partial<FairnessSettings>;
+  /** Keep each owner's recent statement records and reuse those whose key still matches (reuse.ts); default true unless EVALUATION_REUSE=0. */
+  reuse?: boolean;
 }
 
 /**
@@ -103,8 +108,12 @@ export class EvaluationPool {
   private workers = new Set<Worker>();
   private closed = false;
   readonly settings: FairnessSettings;
+  private readonly reuse: ReuseCache | null;
 
   constructor(private readonly options: PoolOptions) {
+    // workers started before the build is there run the sources through tsx
+    void (ensureWorkerBundle as () => Promise<boolean>)();
+    this.reuse = (options.reuse ?? process.env['EVALUATION_REUSE'] !== '0') ? new ReuseCache() : null;
     this.settings = { ...fairnessSettings(), ...options.fairness };
   }
 
@@ -128,6 +137,9 @@ export class EvaluationPool {
 
   /** Statements started in workers, over all evaluations (for tests and metrics). */
   statementsStarted = 0;
+
+  /** Statements whose record an earlier evaluation made and that were not computed again (for tests and metrics). */
+  statementsReused = 0;
 
   /** Evaluations waiting for a worker, and running. */
   get load(): { queued: number; running: number } {
@@ -354,8 +366,16 @@ export class EvaluationPool {
           job.progress?.onProgress({ index: message.index, line: message.line, total: job.total ?? 0 });
           arm(limit + BACKSTOP_MS, { reason: 'time' });
           return;
+        case 'reused':
+          this.statementsReused += message.count;
+          return;
+        case 'alive':
+          // a kept statement computed again for a later one's sake, between statements
+          if (current < 0) arm(limit + BACKSTOP_MS, { reason: 'crash', detail: 'it stopped answering between statements' });
+          return;
         case 'statement':
           job.done.set(message.index, message.json);
+          if (message.key && message.reusable) this.reuse?.keep(job.owner, message.key, message.json, message.line);
           current = -1;
           arm(limit + BACKSTOP_MS, { reason: 'crash', detail: 'it stopped answering between statements' });
           return;
@@ -385,6 +405,7 @@ export class EvaluationPool {
       stopped: job.stopped,
       previous: [...job.done],
       sizes: { statementBytes: this.settings.statementBytes, reportBytes: this.settings.reportBytes },
+      reusable: this.reuse?.offer(job.owner, job.source) ?? [],
     } satisfies EvaluationTask);
   }
 }

@@ -29,6 +29,22 @@ function renewHeld(): void {
     .catch(() => undefined); // the database is away: the slots expire, which is what we want
 }
 
+/**
+ * One slot transaction per owner at a time in this process: the others wait here, not in
+ * PostgreSQL on the advisory lock, where each would hold one of the pool's few
+ * connections and make every other request (the worksheet list) wait for one.
+ */
+const turns = new Map<string, Promise<unknown>>();
+function oneAtATime<T>(owner: string, work: () => Promise<T>): Promise<T> {
+  const next = (turns.get(owner) ?? Promise.resolve()).then(work);
+  const tail = next.catch(() => undefined);
+  turns.set(owner, tail);
+  void tail.then(() => {
+    if (turns.get(owner) === tail) turns.delete(owner);
+  });
+  return next;
+}
+
 export interface Slot {
   release: () => Promise<void>;
 }
@@ -43,7 +59,7 @@ export const refereeOwner = (linkId: number) => `referee:${linkId}`;
  * oldest one ends by its budget (`budgetMs`) at the latest.
  */
 export async function takeSlot(res: Response, owner: string, cap: number, budgetMs: number): Promise<Slot> {
-  const outcome = await db().transaction(async (transaction) => {
+  const outcome = await oneAtATime(owner, () => db().transaction(async (transaction) => {
     await db().query('SELECT pg_advisory_xact_lock(hashtext($1))', { bind: [`evaluation_slots:${owner}`], transaction });
     const [state] = await db().query<{ n: number; oldest_ms: number | null }>(
       `SELECT count(*)::int AS n, (extract(epoch FROM now() - min(created_at)) * 1000)::float8 AS oldest_ms
@@ -57,7 +73,7 @@ export async function takeSlot(res: Response, owner: string, cap: number, budget
       { bind: [owner], type: QueryTypes.SELECT, transaction },
     );
     return { full: false as const, id: row!.id };
-  });
+  }));
   if (outcome.full) {
     // The oldest running evaluation ends by its budget at the latest; most end far sooner.
     const untilBudget = Math.ceil((budgetMs - outcome.oldestMs) / 1000);

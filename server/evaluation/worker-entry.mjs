@@ -1,6 +1,13 @@
-// The worker thread's entry: worker threads do not inherit the parent's TypeScript
-// loader hooks, so register tsx here before loading the TypeScript worker.
-import { register } from 'tsx/esm/api';
+// The worker thread's entry: the ahead-of-time build of the worker when it is current
+// (worker-bundle.mjs), else the TypeScript sources. Worker threads do not inherit the
+// parent's TypeScript loader hooks, so tsx is registered here for the sources.
+import { currentWorkerBundle } from './worker-bundle.mjs';
 
-register();
-await import('./worker.ts');
+const bundle = currentWorkerBundle();
+if (bundle) {
+  await import(bundle);
+} else {
+  const { register } = await import('tsx/esm/api');
+  register();
+  await import('./worker.ts');
+}

@@ -1,9 +1,9 @@
 import { Router } from 'express';
-import { createWorksheetBody, worksheetListQuery, type GroupRole, type WorksheetDto, type WorksheetSummaryDto } from '../../shared/api.js';
+import { createWorksheetBody, roleCan, worksheetListQuery, type GroupRole, type WorksheetDto, type WorksheetSummaryDto } from '../../shared/api.js';
 import { checkpointBody, draftBody, type HeadDto, type VersionDto } from '../../shared/versions-api.js';
 import { currentUser } from '../middleware/auth.js';
 import { requireGroupRole, requireWorksheetRole } from '../middleware/group-access.js';
-import { HttpError, notFound } from '../middleware/http-error.js';
+import { forbidden, HttpError, notFound } from '../middleware/http-error.js';
 import { idParam, parseInput } from '../middleware/validate.js';
 import type { Worksheet } from '../models/index.js';
 import type { EvaluationPool } from '../evaluation/pool.js';
@@ -11,7 +11,7 @@ import { storedReport, storeReport } from '../evaluation/stored.js';
 import { evaluateForRequest } from './evaluate.js';
 import { checkEvaluationLimits, checkWorksheetSize } from '../evaluation/limits.js';
 import {
-  createWorksheet, deleteWorksheet, discardDraft, findDraft, findHead, findVersion, listVersions, listWorksheets, milestoneCheck, milestoneSigners,
+  createWorksheet, deleteWorksheet, discardDraft, findDraft, findHead, findVersion, listVersions, listWorksheetsForMember, milestoneCheck, milestoneSigners,
   saveDraft, saveWorksheet, signOffMilestone, unlessDeleted, withAuthor, worksheetGone,
 } from '../services/worksheets.js';
 import type { WorksheetVersion } from '../models/index.js';
@@ -32,10 +32,20 @@ export function groupWorksheetRoutes(): Router {
 
   router.get('/', async (req, res) => {
     const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');
-    await requireGroupRole(currentUser(req).id, groupId, 'read');
+    const user = currentUser(req);
     const query = parseInput(worksheetListQuery, req.query);
-    const { rows, count } = await listWorksheets(groupId, query);
-    res.json({ items: rows.map(summary), total: count, page: query.page, pageSize: query.pageSize });
+    // membership, page and count in one query (the session's user was read by passport)
+    const listed = await listWorksheetsForMember(user.id, groupId, query);
+    if (!listed) throw notFound('This group');
+    if (!roleCan(listed.role, 'read')) throw forbidden();
+    const items: WorksheetSummaryDto[] = listed.rows.map((w) => ({
+      id: w.id,
+      title: w.title,
+      version: w.version,
+      updatedAt: w.updatedAt.toISOString(),
+      updatedBy: w.updatedBy ?? 'a former member',
+    }));
+    res.json({ items, total: listed.count, page: query.page, pageSize: query.pageSize });
   });
 
   router.post('/', async (req, res) => {

@@ -1,6 +1,6 @@
 /** Queries of worksheets and their versions. */
 import { ForeignKeyConstraintError, Op, QueryTypes, Transaction } from 'sequelize';
-import type { WorksheetListQuery } from '../../shared/api.js';
+import type { GroupRole, WorksheetListQuery } from '../../shared/api.js';
 import { AUTO_VERSION_MINUTES, type DraftDto, type MilestoneCheckDto } from '../../shared/versions-api.js';
 import { parseSource } from '../evaluation/parse-source.js';
 import { statementReviews } from './reviews.js';
@@ -17,19 +17,63 @@ const likePattern = (search: string) => {
   return `%${escaped}%`;
 };
 
-/** One page of a group's worksheets, without their source (a source may be 200 kB). */
-export function listWorksheets(groupId: number, query: WorksheetListQuery) {
-  return Worksheet.findAndCountAll({
-    where: { groupId, ...(query.search ? { title: { [Op.iLike]: likePattern(query.search) } } : {}) },
-    attributes: { exclude: ['source'] },
-    ...withAuthor,
-    order: [
-      [query.sort, query.direction.toUpperCase()],
-      ['id', 'ASC'],
-    ],
-    limit: query.pageSize,
-    offset: query.page * query.pageSize,
-  });
+const LIST_ORDER: Record<WorksheetListQuery['sort'], string> = { title: 'w.title', updatedAt: 'w.updated_at', version: 'w.version' };
+
+interface ListRow {
+  role: GroupRole;
+  id: number | null;
+  title: string;
+  version: number;
+  updated_at: Date;
+  display_name: string | null;
+  total: string | null;
+}
+
+export interface WorksheetListItem {
+  id: number;
+  title: string;
+  version: number;
+  updatedAt: Date;
+  updatedBy: string | null;
+}
+
+/**
+ * The caller's role in the group and one page of its worksheets with their count, in one
+ * query (the count by a window over the filtered rows, before the page is cut). Null when
+ * the caller is not a member. Only a page past the end (no row to carry the count) asks
+ * for the count separately.
+ */
+export async function listWorksheetsForMember(
+  userId: number,
+  groupId: number,
+  query: WorksheetListQuery,
+): Promise<{ role: GroupRole; rows: WorksheetListItem[]; count: number } | null> {
+  const dir = query.direction === 'asc' ? 'ASC' : 'DESC';
+  const order = `${LIST_ORDER[query.sort]} ${dir}, w.id ASC`;
+  const bind: unknown[] = [groupId, userId, query.search ? likePattern(query.search) : null, query.pageSize, query.page * query.pageSize];
+  const rows = await Worksheet.sequelize!.query<ListRow>(
+    `SELECT m.role, w.id, w.title, w.version, w.updated_at, w.display_name, w.total
+       FROM memberships m
+       LEFT JOIN LATERAL (
+         SELECT w.id, w.title, w.version, w.updated_at, u.display_name, COUNT(*) OVER () AS total
+           FROM worksheets w LEFT JOIN users u ON u.id = w.updated_by_id
+          WHERE w.group_id = m.group_id AND ($3::text IS NULL OR w.title ILIKE $3)
+          ORDER BY ${order}
+          LIMIT $4 OFFSET $5
+       ) w ON true
+      WHERE m.group_id = $1 AND m.user_id = $2
+      ORDER BY ${order}`,
+    { bind, type: QueryTypes.SELECT },
+  );
+  if (!rows.length) return null;
+  const role = rows[0]!.role;
+  const items = rows
+    .filter((r) => r.id !== null)
+    .map((r) => ({ id: r.id!, title: r.title, version: r.version, updatedAt: new Date(r.updated_at), updatedBy: r.display_name }));
+  const count = items.length
+    ? Number(rows[0]!.total)
+    : await Worksheet.count({ where: { groupId, ...(query.search ? { title: { [Op.iLike]: likePattern(query.search) } } : {}) } });
+  return { role, rows: items, count };
 }
 
 /** A new worksheet with its version 1, recorded in the group's activity. */

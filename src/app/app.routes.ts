@@ -2,6 +2,20 @@ import { Routes } from '@angular/router';
 import { adminGuard, authGuard, guestGuard } from './core/auth/auth-guard';
 import { unsavedChangesGuard } from './worksheets/unsaved-changes-guard';
 
+const worksheetPage = () => import('./worksheets/worksheet-page/worksheet-page').then((m) => m.WorksheetPage);
+
+/**
+ * A visit that starts on a worksheet (a link, a reload) loads the worksheet page's code and
+ * KaTeX while the app starts and checks the session, not after: the page then asks for the
+ * worksheet and its stored report as soon as the session is known (bench/open-worksheet).
+ * A failed load here is retried by the router's own import.
+ */
+export function loadEarly(path: string): void {
+  if (!/^\/worksheets\/\d+/.test(path)) return;
+  worksheetPage().catch(() => undefined);
+  import('./worksheets/findings/math').then((m) => m.loadKatex()).catch(() => undefined);
+}
+
 export const routes: Routes = [
   { path: '', pathMatch: 'full', redirectTo: 'groups' },
   {
@@ -33,7 +47,9 @@ export const routes: Routes = [
     title: 'Worksheet · Sheetwise',
     canActivate: [authGuard],
     canDeactivate: [unsavedChangesGuard],
-    loadComponent: () => import('./worksheets/worksheet-page/worksheet-page').then((m) => m.WorksheetPage),
+    // preloaded after the first page (OnlyMarkedPreloading in app.config.ts)
+    data: { preload: true },
+    loadComponent: worksheetPage,
   },
   {
     path: 'admin/users',

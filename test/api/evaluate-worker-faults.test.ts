@@ -51,7 +51,9 @@ test('the memory limit stops one statement; the worker is replaced; the rest kee
 });
 
 test('after a worker dies, the new one resumes after the statement that cost it: no statement starts twice', async () => {
-  const source = ['note "before"', 'param k : positive', 'integral Z = exp(-k*x^2/2) d(x)', chainIntegral('Big', 400), 'expect Z = sqrt(2*pi/k)', 'note "after"'].join('\n');
+  // The comment makes every statement's reuse key new (server/evaluation/reuse.ts): the
+  // first test's records of the same lines are not kept, so each statement starts here.
+  const source = ['note "before the resume"', 'param k : positive # resume', 'integral Z = exp(-k*x^2/2) d(x)', chainIntegral('Big', 400), 'expect Z = sqrt(2*pi/k)', 'note "after"'].join('\n');
   const res = await author.stream('/api/evaluate', { source });
   assert.equal(res.status, 200);
   const text = await res.text();

@@ -20,8 +20,12 @@ import {
 import type { EvaluationProgress, WorksheetReport } from '@shared/evaluation';
 import { EvaluationApi, type EvaluationEvent, type StoredReport } from '../evaluation-api';
 
-/** Typing pause before a live evaluation. */
-export const EVALUATE_DELAY_MS = 250;
+/**
+ * Typing pause before a live evaluation. Short, because an evaluation after an edit is
+ * cheap: the server computes only the statements whose text or inputs changed and keeps
+ * the others' records (server/evaluation/reuse.ts), and a newer edit cancels it.
+ */
+export const EVALUATE_DELAY_MS = 150;
 
 /** What to evaluate: a draft (live), or the saved version on opening (stored report first). */
 type Job =
