@@ -15,41 +15,11 @@ import { build } from 'esbuild';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { buildIsCurrent } from '../cas/cli/freshness.mjs';
+import { lazyNerdamerPlugin } from './lib/lazy-nerdamer-plugin.mjs';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 export const outDir = join(root, 'dist', 'cli');
 
-const LAZY_NERDAMER = `
-import { createRequire } from 'node:module';
-const require = createRequire(import.meta.url);
-let loaded = null;
-function load() {
-  if (!loaded) {
-    loaded = require('nerdamer');
-    require('nerdamer/Calculus.js');
-    require('nerdamer/Algebra.js');
-  }
-  return loaded;
-}
-// a function, so that nerdamer(text) works; its properties (diff, flush, ...) are read through
-const lazy = new Proxy(function nerdamer() {}, {
-  apply: (_t, self, args) => Reflect.apply(load(), self, args),
-  get: (_t, key) => load()[key],
-  has: (_t, key) => key in load(),
-});
-export default lazy;
-`;
-
-const lazyNerdamer = {
-  name: 'lazy-nerdamer',
-  setup(b) {
-    b.onResolve({ filter: /^nerdamer$/ }, () => ({ path: 'nerdamer', namespace: 'lazy-nerdamer' }));
-    b.onResolve({ filter: /^nerdamer\/(Calculus|Algebra)(\.js)?$/ }, (a) => ({ path: a.path, namespace: 'lazy-nerdamer-extension' }));
-    b.onLoad({ filter: /.*/, namespace: 'lazy-nerdamer' }, () => ({ contents: LAZY_NERDAMER, loader: 'js', resolveDir: root }));
-    // the extensions are loaded with the package, on first use
-    b.onLoad({ filter: /.*/, namespace: 'lazy-nerdamer-extension' }, () => ({ contents: '', loader: 'js' }));
-  },
-};
 
 export async function buildCli() {
   await build({
@@ -62,7 +32,7 @@ export async function buildCli() {
     format: 'esm',
     target: 'node20',
     packages: 'external',
-    plugins: [lazyNerdamer],
+    plugins: [lazyNerdamerPlugin(root)],
     sourcemap: 'linked',
     legalComments: 'none',
     logLevel: 'warning',

@@ -5,32 +5,15 @@
  * this thread with worker.terminate(), which V8 honours even inside a long statement.
  */
 import { parentPort } from 'node:worker_threads';
-import vm from 'node:vm';
 import { evaluateWorksheet } from '../worksheet.js';
 import { parseWorksheet } from '../lang/parse.js';
 import { ENGINE_VERSION } from '../version.js';
-import { TimeLimitError } from '../deadline.js';
 import { blankReport } from '../statements/context.js';
 import type { StatementReport } from '../../shared/evaluation.js';
 import { statementLines } from './format.js';
 import type { CliJob, CliMessage } from './protocol.js';
+import { guarded } from '../vm-guard.js';
 
-// A statement that does not reach a deadline check in time is stopped by V8 itself
-// (vm timeout), as in the server's workers; the thread goes on with the next statement.
-const sandbox = vm.createContext({ run: null as unknown });
-const GRACE_MS = 250;
-function guarded<T>(run: () => T, limitMs: number): T {
-  if (!Number.isFinite(limitMs)) return run();
-  sandbox['run'] = run;
-  try {
-    return vm.runInContext('run()', sandbox, { timeout: Math.max(1, Math.ceil(limitMs + GRACE_MS)) }) as T;
-  } catch (err) {
-    if ((err as { code?: string })?.code === 'ERR_SCRIPT_EXECUTION_TIMEOUT') throw new TimeLimitError(limitMs);
-    throw err;
-  } finally {
-    sandbox['run'] = null;
-  }
-}
 
 const post = (m: CliMessage) => parentPort!.postMessage(m);
 

@@ -14,7 +14,8 @@ import { qIsZero, qsign, qabs, gIsOne, gneg, qToNumber } from '../exact/q.js';
 import { squareFree, isConstant, constantTerm, polyScale, type Poly, type Term } from '../exact/poly.js';
 import type { RatFunc } from '../exact/ratfunc.js';
 
-function qExpr(x: Q): Expr {
+/** A rational: 2, -3/4. */
+export function qExpr(x: Q): Expr {
   const a = qabs(x);
   const e = a.d === 1n ? num(a.n.toString()) : div(num(a.n.toString()), num(a.d.toString()));
   return qsign(x) < 0 ? neg(e) : e;

@@ -20,6 +20,7 @@ import { formulaOf } from '../expr/print.js';
 import { ratExpr } from '../expr/fromExact.js';
 import { fromExpr, rfEvalComplex, rfIsZero, rfNeg, RF0, type RatFunc } from '../exact/ratfunc.js';
 import { pfaffianExact } from '../exact/pfaffian.js';
+import { reorder } from '../exact/grassmann.js';
 import { blankReport, StatementFailure, type Context } from './context.js';
 import type { Point } from '../domains/sample.js';
 
@@ -30,16 +31,6 @@ type GSum = Map<string, { coef: Expr; vars: number[] }>;
 
 const keyOf = (vars: number[]) => vars.join(',');
 
-/** Sorts an ordered product into ascending order: the sign of the permutation, or 0 when a variable repeats. */
-function canonical(vars: number[]): { sign: number; vars: number[] } {
-  const v = [...vars];
-  let sign = 1;
-  for (let i = 0; i < v.length; i++) for (let j = 0; j + 1 < v.length - i; j++) {
-    if (v[j]! === v[j + 1]!) return { sign: 0, vars: [] };
-    if (v[j]! > v[j + 1]!) { [v[j], v[j + 1]] = [v[j + 1]!, v[j]!]; sign = -sign; }
-  }
-  return { sign, vars: v };
-}
 
 function gAdd(a: GSum, b: GSum, sign = 1): GSum {
   const out = new Map(a);
@@ -54,7 +45,7 @@ function gAdd(a: GSum, b: GSum, sign = 1): GSum {
 function gMul(a: GSum, b: GSum): GSum {
   let out: GSum = new Map();
   for (const x of a.values()) for (const y of b.values()) {
-    const { sign, vars } = canonical([...x.vars, ...y.vars]);
+    const { sign, idx: vars } = reorder([...x.vars, ...y.vars]);
     if (sign === 0) continue;
     const c = mul(x.coef, y.coef);
     out = gAdd(out, new Map([[keyOf(vars), { vars, coef: c }]]), sign);

@@ -9,10 +9,10 @@ import type { Domain, Formula, Step } from '../../shared/evaluation.js';
 import type { Expr } from '../lang/ast.js';
 import { add, call, div, mul, name as nameExpr, neg, num, PI, pow, sub } from '../expr/build.js';
 import { formulaOf } from '../expr/print.js';
-import { ratExpr, sqrtExpr } from '../expr/fromExact.js';
+import { qExpr, ratExpr, sqrtExpr } from '../expr/fromExact.js';
 import { fromExpr, rfEquals, rfIsZero, type RatFunc } from '../exact/ratfunc.js';
 import { detRat } from '../exact/matrix.js';
-import { qsign, qToNumber, type Q } from '../exact/q.js';
+import { qsign, qToNumber } from '../exact/q.js';
 import { gaussianAsymptotics, type Approach, type GaussianAsymptotics } from '../verdicts/asymptotics.js';
 import { exactFormOf } from '../verdicts/exactForm.js';
 import { rfIm, rfRe } from '../verdicts/exactGaussian.js';
@@ -55,11 +55,6 @@ function uOf(p: string, how: Approach): Expr {
   const p0 = qExpr(how.at);
   const d = p0.t === 'num' && p0.v === '0' ? P : sub(P, p0);
   return how.side > 0 ? d : neg(d);
-}
-function qExpr(x: Q): Expr {
-  const a = x.n < 0n ? -x.n : x.n;
-  const e = x.d === 1n ? num(a.toString()) : div(num(a.toString()), num(x.d.toString()));
-  return x.n < 0n ? neg(e) : e;
 }
 /** u^a in p, simplified for the common cases: p^-a at infinity. */
 function uPower(p: string, how: Approach, a: number): Expr {

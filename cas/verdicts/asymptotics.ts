@@ -26,7 +26,7 @@ import type { ExactForm } from './exactGaussian.js';
 export type Approach = { kind: 'inf' } | { kind: '-inf' } | { kind: 'point'; at: Q; side: 1 | -1 };
 
 /** r(p) rewritten as a rational function of u (u -> 0+). */
-function inU(r: RatFunc, p: string, how: Approach, u: string): RatFunc {
+export function inU(r: RatFunc, p: string, how: Approach, u: string): RatFunc {
   const conv = (poly: Poly): { c: RatFunc[] } => ({ c: coefficients(poly, p).map(rfPoly) });
   const N = conv(r.num).c; const D = conv(r.den).c;
   const U = rfPoly(polyVar(u));

@@ -33,14 +33,14 @@ import { add, call, div, mul, name as nameExpr, neg, num, pow, sub } from '../ex
 import { freeNames, substitute } from '../expr/names.js';
 import { evaluate } from '../expr/evaluate.js';
 import { Complex } from 'complex.js';
-import { ratExpr, sqrtExpr } from '../expr/fromExact.js';
+import { qExpr, ratExpr, sqrtExpr } from '../expr/fromExact.js';
 import { coefficients, polyVar, variables, type Poly } from '../exact/poly.js';
-import { fromExpr, rfAdd, rfConst, rfConstantValue, rfDiv, rfEquals, rfInv, rfIsZero, rfMul, rfNeg, rfPoly, rfPow, rfSub, RF0, RF1, type RatFunc } from '../exact/ratfunc.js';
+import { fromExpr, rfAdd, rfConst, rfConstantValue, rfDiv, rfEquals, rfInv, rfIsZero, rfMul, rfNeg, rfPoly, rfPow, RF0, RF1, type RatFunc } from '../exact/ratfunc.js';
 import { leadingMinorsRat } from '../exact/matrix.js';
 import { q, qadd, qcmp, qdiv, qeq, qint, qIsZero, qmul, qneg, qsign, qsub, qToNumber, Q0, Q1, type Q } from '../exact/q.js';
 import { rfIm, rfRe } from './exactGaussian.js';
 import { exactFormOf } from './exactForm.js';
-import { laurent, type Approach } from './asymptotics.js';
+import { inU, laurent, type Approach } from './asymptotics.js';
 import type { GaussianInfo } from '../statements/context.js';
 
 type K = RatFunc;
@@ -532,20 +532,6 @@ function isRationalLeaf(e: Expr, isParam: (n: string) => boolean): boolean {
   }
 }
 
-/** r(p) rewritten as a rational function of u (u -> 0+). */
-export function inU(r: RatFunc, p: string, how: Approach, u: string): RatFunc {
-  const N = coefficients(r.num, p).map(rfPoly); const D = coefficients(r.den, p).map(rfPoly);
-  const U = rfPoly(polyVar(u));
-  if (how.kind === 'point') {
-    const pOf = rfAdd(rfConst({ re: how.at, im: Q0 }), rfMul(rfConst(how.side), U));
-    const ev = (cs: RatFunc[]) => cs.reduceRight((acc, c) => rfAdd(rfMul(acc, pOf), c), RF0);
-    return rfDiv(ev(N), ev(D));
-  }
-  const s = how.kind === 'inf' ? 1 : -1;
-  const M = Math.max(N.length, D.length) - 1;
-  const rev = (cs: RatFunc[]) => cs.reduce((acc, c, i) => rfAdd(acc, rfMul(rfMul(c, rfConst(s ** i)), rfPow(U, M - i))), RF0);
-  return rfDiv(rev(N), rev(D));
-}
 
 // --- reading an expansion in the parameter ------------------------------------------------
 
@@ -557,11 +543,6 @@ export function uIn(p: string, how: Approach): Expr {
   const p0 = qExpr(how.at);
   const d = p0.t === 'num' && p0.v === '0' ? P : sub(P, p0);
   return how.side > 0 ? d : (p0.t === 'num' && p0.v === '0' ? neg(P) : sub(p0, P));
-}
-export function qExpr(x: Q): Expr {
-  const a = x.n < 0n ? -x.n : x.n;
-  const e = x.d === 1n ? num(a.toString()) : div(num(a.toString()), num(x.d.toString()));
-  return x.n < 0n ? neg(e) : e;
 }
 /** u^a as a power of p (at infinity) or of p - p0. */
 export function uPowerExpr(p: string, how: Approach, a: Q): Expr | null {
@@ -597,5 +578,3 @@ export function scaleExpr(x: Expander, S: Ser['S'], p: string, how: Approach): E
   return call('exp', sum);
 }
 
-export { add, mul };
-export { rfSub };

@@ -8,6 +8,7 @@
  * p >= p* or p <= p* with p* written through sin and cos of the exact angle, e.g.
  * k >= tan(1/1000).
  */
+import { qExpr } from '../expr/fromExact.js';
 import type { Expr } from '../lang/ast.js';
 import type { Formula } from '../../shared/evaluation.js';
 import { fromExpr, type RatFunc } from '../exact/ratfunc.js';
@@ -65,12 +66,6 @@ export function exactAngleOf(factor: Expr, variable: string): ExactAngle | null 
 }
 
 const rfIsZeroPoly = (r: RatFunc) => r.num.terms.size === 0;
-
-function qExpr(x: Q): Expr {
-  const a = x.n < 0n ? -x.n : x.n;
-  const e = x.d === 1n ? num(a.toString()) : div(num(a.toString()), num(x.d.toString()));
-  return x.n < 0n ? neg(e) : e;
-}
 
 /** q*pi + r as written by a physicist: pi/4 + 1/2000, -(pi/4 + 1/2000). */
 export function angleExpr(q: Q, r: Q): Expr {

@@ -12,6 +12,7 @@
 import { readFileSync, renameSync, statSync, mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { lazyNerdamerPlugin } from '../../scripts/lib/lazy-nerdamer-plugin.mjs';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const OUT = join(root, 'dist', 'server', 'evaluation-worker.mjs');
@@ -32,35 +33,6 @@ export function currentWorkerBundle() {
   }
 }
 
-const LAZY_NERDAMER = `
-import { createRequire } from 'node:module';
-const require = createRequire(import.meta.url);
-let loaded = null;
-function load() {
-  if (!loaded) {
-    loaded = require('nerdamer');
-    require('nerdamer/Calculus.js');
-    require('nerdamer/Algebra.js');
-  }
-  return loaded;
-}
-const lazy = new Proxy(function nerdamer() {}, {
-  apply: (_t, self, args) => Reflect.apply(load(), self, args),
-  get: (_t, key) => load()[key],
-  has: (_t, key) => key in load(),
-});
-export default lazy;
-`;
-
-const lazyNerdamer = {
-  name: 'lazy-nerdamer',
-  setup(b) {
-    b.onResolve({ filter: /^nerdamer$/ }, () => ({ path: 'nerdamer', namespace: 'lazy-nerdamer' }));
-    b.onResolve({ filter: /^nerdamer\/(Calculus|Algebra)(\.js)?$/ }, (a) => ({ path: a.path, namespace: 'lazy-nerdamer-extension' }));
-    b.onLoad({ filter: /.*/, namespace: 'lazy-nerdamer' }, () => ({ contents: LAZY_NERDAMER, loader: 'js', resolveDir: root }));
-    b.onLoad({ filter: /.*/, namespace: 'lazy-nerdamer-extension' }, () => ({ contents: '', loader: 'js' }));
-  },
-};
 
 let building = null;
 
@@ -86,7 +58,7 @@ export function ensureWorkerBundle() {
       format: 'esm',
       target: 'node20',
       packages: 'external',
-      plugins: [lazyNerdamer],
+      plugins: [lazyNerdamerPlugin(root)],
       metafile: true,
       legalComments: 'none',
       logLevel: 'silent',

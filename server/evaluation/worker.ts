@@ -5,7 +5,6 @@
 // Everything that costs time in proportion to the worksheet happens here, off the
 // server's event loop: the parse, the limits read from it, the statements, the size
 // of the report (serialised here; the server gets one string).
-import vm from 'node:vm';
 import { parentPort } from 'node:worker_threads';
 import { evaluateWorksheet, parseWorksheet, type ParsedWorksheet, type StoppedStatement } from '../../cas/index.js';
 import { TimeLimitError } from '../../cas/deadline.js';
@@ -15,6 +14,7 @@ import { checkParsedLimits, tooDeepToRead } from './limits.js';
 import { capStatement, type SizeLimits } from './report-size.js';
 import { lowerThisThreadPriority } from './thread-priority.js';
 import { reuseKeys } from './reuse.js';
+import { guarded } from '../../cas/vm-guard.js';
 
 export interface EvaluationTask {
   source: string;
@@ -42,23 +42,6 @@ export type WorkerMessage =
 
 lowerThisThreadPriority(10);
 
-// A statement that never reaches a deadline check (one long step in the core) is stopped
-// by V8 itself: code run through vm with a timeout is terminated when it runs over, and
-// the worker goes on with the next statement instead of being replaced. The context is
-// empty; `run` is the only thing it can see.
-const sandbox = vm.createContext({ run: null as unknown });
-const GRACE_MS = 250;
-function guarded<T>(run: () => T, limitMs: number): T {
-  sandbox['run'] = run;
-  try {
-    return vm.runInContext('run()', sandbox, { timeout: Math.max(1, Math.ceil(limitMs + GRACE_MS)) }) as T;
-  } catch (err) {
-    if ((err as { code?: string })?.code === 'ERR_SCRIPT_EXECUTION_TIMEOUT') throw new TimeLimitError(limitMs);
-    throw err;
-  } finally {
-    sandbox['run'] = null;
-  }
-}
 
 const post = (m: WorkerMessage) => parentPort!.postMessage(m);
 

@@ -5,7 +5,7 @@ import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
 import type { Browser, Page } from 'playwright-core';
 import { DEMO } from '../support/api-client.js';
-import { launchBrowser, screenshot, signIn } from '../support/browser.js';
+import { launchBrowser, screenshot, signIn, editorText, openDemoWorksheet } from '../support/browser.js';
 import { startTestServer, type TestServer } from '../support/test-server.js';
 
 let server: TestServer;
@@ -23,15 +23,7 @@ after(async () => {
 const MIXING = 'Two modes with an imaginary mixing term';
 
 async function openWorksheet(page: Page, title: string): Promise<void> {
-  await page.getByRole('link', { name: /Lindqvist Lab/ }).first().click();
-  await page.waitForURL(/\/groups\/\d+/);
-  await page.getByRole('link', { name: title }).click();
-  await page.waitForURL(/\/worksheets\/\d+/);
-  await page.locator('[data-testid="editor"][data-ready="true"]').waitFor();
-}
-
-function editorText(page: Page): Promise<string> {
-  return page.evaluate(() => (document.querySelector('[data-testid="editor"]') as unknown as { sheetwiseText(): string }).sheetwiseText());
+  await openDemoWorksheet(page, title);
 }
 
 async function typeAtEnd(page: Page, lines: string[]) {

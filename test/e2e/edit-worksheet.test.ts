@@ -1,17 +1,13 @@
 // End to end in Debian's Chromium: an author edits and saves; a reader cannot.
 import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import { DEMO } from '../support/api-client.js';
-import { launchBrowser, screenshot, signIn } from '../support/browser.js';
+import { launchBrowser, screenshot, signIn, editorText } from '../support/browser.js';
 import { startTestServer, type TestServer } from '../support/test-server.js';
 
 let server: TestServer;
 
-/** The text of the editor model, through the hook the editor puts on its host element. */
-function editorText(page: Page): Promise<string> {
-  return page.evaluate(() => (document.querySelector('[data-testid="editor"]') as unknown as { sheetwiseText(): string }).sheetwiseText());
-}
 let browser: Browser;
 
 before(async () => {

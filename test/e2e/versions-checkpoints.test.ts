@@ -7,7 +7,7 @@ import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
 import type { Browser, Page } from 'playwright-core';
 import { ApiClient, DEMO } from '../support/api-client.js';
-import { launchBrowser, screenshot, signIn } from '../support/browser.js';
+import { editorText, launchBrowser, screenshot, signIn } from '../support/browser.js';
 import { startTestServer, type TestServer } from '../support/test-server.js';
 import { STATEMENT_KEYWORDS } from '../../shared/language.js';
 
@@ -27,9 +27,6 @@ after(async () => {
   await browser?.close();
   await server?.stop();
 });
-
-const editorText = (page: Page): Promise<string> =>
-  page.evaluate(() => (document.querySelector('[data-testid="editor"]') as unknown as { sheetwiseText(): string }).sheetwiseText());
 
 async function openSheet(page: Page, id: number) {
   await page.goto(`${server.url}/worksheets/${id}`);

@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import { after, before, test } from 'node:test';
 import type { Browser, Page } from 'playwright-core';
 import { DEMO } from '../support/api-client.js';
-import { launchBrowser, screenshot, signIn } from '../support/browser.js';
+import { launchBrowser, screenshot, signIn, editorText, openDemoWorksheet } from '../support/browser.js';
 import { startTestServer, type TestServer } from '../support/test-server.js';
 
 let server: TestServer;
@@ -25,17 +25,7 @@ after(async () => {
 const MIXING = 'Two modes with an imaginary mixing term';
 
 async function openWorksheet(page: Page, title: string): Promise<string> {
-  await page.getByRole('link', { name: /Lindqvist Lab/ }).first().click();
-  await page.waitForURL(/\/groups\/\d+/);
-  await page.getByRole('link', { name: title }).click();
-  await page.waitForURL(/\/worksheets\/\d+/);
-  await page.locator('[data-testid="editor"][data-ready="true"]').waitFor();
-  return /\/worksheets\/(\d+)/.exec(page.url())![1];
-}
-
-/** The text of the editor model, through the hook the editor puts on its host element. */
-function editorText(page: Page): Promise<string> {
-  return page.evaluate(() => (document.querySelector('[data-testid="editor"]') as unknown as { sheetwiseText(): string }).sheetwiseText());
+  return openDemoWorksheet(page, title);
 }
 
 function editorMarkers(page: Page): Promise<{ line: number; column: number; message: string }[]> {

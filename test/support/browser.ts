@@ -33,3 +33,18 @@ export async function screenshot(page: Page, name: string) {
   mkdirSync(dir, { recursive: true });
   await page.screenshot({ path: join(dir, `${name}.png`), fullPage: true });
 }
+
+/** The text of the editor model, through the hook the editor puts on its host element. */
+export function editorText(page: Page): Promise<string> {
+  return page.evaluate(() => (document.querySelector('[data-testid="editor"]') as unknown as { sheetwiseText(): string }).sheetwiseText());
+}
+
+/** From the signed-in start page: the demo group, then a worksheet by title, until its editor is ready; its id. */
+export async function openDemoWorksheet(page: Page, title: string): Promise<string> {
+  await page.getByRole('link', { name: /Lindqvist Lab/ }).first().click();
+  await page.waitForURL(/\/groups\/\d+/);
+  await page.getByRole('link', { name: title }).click();
+  await page.waitForURL(/\/worksheets\/\d+/);
+  await page.locator('[data-testid="editor"][data-ready="true"]').waitFor();
+  return /\/worksheets\/(\d+)/.exec(page.url())![1]!;
+}
