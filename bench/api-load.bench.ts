@@ -1,6 +1,7 @@
 // The API under load on 127.0.0.1 (a benchmark, never a test): 50 signed-in clients
 // listing worksheets and opening one; then the same while 20 heavy evaluations run.
-// The server runs as a child process, so the load generator does not share its loop.
+// The server runs as a child process, so the load generator does not share its loop; the
+// evaluating clients run in a third (bench/support-evaluators.ts) for the same reason.
 import { spawn } from 'node:child_process';
 import autocannon from 'autocannon';
 import { ApiClient, DEMO } from '../test/support/api-client.js';
@@ -72,24 +73,20 @@ const summary = (r: autocannon.Result) => ({
 const listAndOpen = await load('list and open', [`/api/groups/${groupId}/worksheets`, `/api/worksheets/${worksheetId}`]);
 
 await admin.get('/api/admin/metrics?reset=1');
-let evaluations = 0;
-let evaluating = true;
-const evaluators = Array.from({ length: 20 }, async (_, n) => {
-  while (evaluating) {
-    // The first statement's line differs at every run (its comment), so no statement's record can be reused (the
-    // server keeps an owner's records by statement key, server/evaluation/reuse.ts): every
-    // evaluation computes the whole worksheet, as a fresh one would.
-    const res = await sessions[n]!.post('/api/evaluate', { source: HEAVY.replace('\n', ` # run ${n}-${evaluations}\n`) });
-    if (res.status === 200) evaluations++;
-  }
+const evaluators = spawn('node_modules/.bin/tsx', ['bench/support-evaluators.ts'], {
+  env: { ...process.env, BASE: base, SOURCE: HEAVY, COOKIES: JSON.stringify(sessions.slice(0, 20).map((c) => [...c.cookies])) },
+  stdio: ['ignore', 'ignore', 'inherit', 'ipc'],
+  detached: true, // its own process group, stopped by its id
 });
+await new Promise<void>((resolve) => evaluators.on('message', (m: { type?: string }) => m?.type === 'ready' && resolve()));
 const listDuringEvaluation = await load('list while evaluating', [`/api/groups/${groupId}/worksheets`]);
 // The same at an offered rate below the server's capacity: latency without the queue that
 // 50 connections firing back to back build up in front of one event loop.
 const PACED_RATE = 150;
 const listPacedDuringEvaluation = await load('list at a fixed rate while evaluating', [`/api/groups/${groupId}/worksheets`], PACED_RATE);
-evaluating = false;
-await Promise.all(evaluators);
+const finished = new Promise<number>((resolve) => evaluators.on('message', (m: { type?: string; completed?: number }) => m?.type === 'done' && resolve(m.completed!)));
+process.kill(-evaluators.pid!, 'SIGTERM');
+const evaluations = await finished;
 const metrics = (await admin.get('/api/admin/metrics')).json;
 
 server.kill('SIGTERM');

@@ -1,9 +1,9 @@
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import connectPgSimple from 'connect-pg-simple';
 import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import session from 'express-session';
+import { accountSlot, createSessionStore } from './auth/session-store.js';
 import helmet from 'helmet';
 import pg from 'pg';
 import { pinoHttp } from 'pino-http';
@@ -69,7 +69,6 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
     }),
   );
 
-  const PgStore = connectPgSimple(session);
   const passport = configurePassport();
   // Sign-in back-off in the database: per account and client address, per client address, per account.
   const signIn = new SignInService(mailer, () => config.publicUrl, {
@@ -80,12 +79,14 @@ export function createApp({ config, logger, sessionPool, evaluationPool, mailer 
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
   api.use(cookieParser());
+  api.use(accountSlot);
   api.use(
     session({
       name: 'sheetwise.sid',
       // No write per request: a session lasts 14 days from sign-in. Nothing is stored for
       // signed-out visitors (their XSRF token is a signed cookie, see middleware/csrf.ts).
-      store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, disableTouch: true }),
+      // the session and its account in one query (auth/session-store.ts)
+      store: createSessionStore(sessionPool),
       secret: config.sessionSecret,
       resave: false,
       saveUninitialized: false,

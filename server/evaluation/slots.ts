@@ -1,7 +1,8 @@
 /**
  * The cap on running and queued evaluations per owner (an account, or a referee link),
  * counted in PostgreSQL so that every server process on the database sees the same
- * count. Taking a slot is one short transaction under an advisory lock on the owner;
+ * count. Taking a slot is one call of a database function that takes an advisory lock on
+ * the owner, counts and inserts (migration 0012);
  * the slot is deleted when its evaluation ends (done, failed or cancelled). A process
  * renews the slots it holds every few seconds, so the slots of a process that died
  * expire within SLOT_TTL_S and are not counted.
@@ -59,21 +60,14 @@ export const refereeOwner = (linkId: number) => `referee:${linkId}`;
  * oldest one ends by its budget (`budgetMs`) at the latest.
  */
 export async function takeSlot(res: Response, owner: string, cap: number, budgetMs: number): Promise<Slot> {
-  const outcome = await oneAtATime(owner, () => db().transaction(async (transaction) => {
-    await db().query('SELECT pg_advisory_xact_lock(hashtext($1))', { bind: [`evaluation_slots:${owner}`], transaction });
-    const [state] = await db().query<{ n: number; oldest_ms: number | null }>(
-      `SELECT count(*)::int AS n, (extract(epoch FROM now() - min(created_at)) * 1000)::float8 AS oldest_ms
-         FROM evaluation_slots WHERE owner = $1 AND expires_at > now()`,
-      { bind: [owner], type: QueryTypes.SELECT, transaction },
+  // One round trip: the lock, the count and the insert run inside PostgreSQL (migration 0012).
+  const outcome = await oneAtATime(owner, async () => {
+    const [row] = await db().query<{ slot_id: string | null; running: number; oldest_ms: number | null }>(
+      'SELECT slot_id::text AS slot_id, running, oldest_ms FROM take_evaluation_slot($1, $2, $3)',
+      { bind: [owner, cap, SLOT_TTL_S], type: QueryTypes.SELECT },
     );
-    if (state!.n >= cap) return { full: true as const, oldestMs: state!.oldest_ms ?? 0 };
-    await db().query('DELETE FROM evaluation_slots WHERE owner = $1 AND expires_at <= now()', { bind: [owner], transaction });
-    const [row] = await db().query<{ id: string }>(
-      `INSERT INTO evaluation_slots (owner, expires_at) VALUES ($1, now() + make_interval(secs => ${SLOT_TTL_S})) RETURNING id::text AS id`,
-      { bind: [owner], type: QueryTypes.SELECT, transaction },
-    );
-    return { full: false as const, id: row!.id };
-  }));
+    return row!.slot_id === null ? { full: true as const, oldestMs: row!.oldest_ms ?? 0 } : { full: false as const, id: row!.slot_id };
+  });
   if (outcome.full) {
     // The oldest running evaluation ends by its budget at the latest; most end far sooner.
     const untilBudget = Math.ceil((budgetMs - outcome.oldestMs) / 1000);

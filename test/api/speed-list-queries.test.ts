@@ -1,5 +1,5 @@
-// The worksheet list costs at most two queries after the session lookup: the account
-// (passport) and one for membership, page and count together. Counted with Sequelize's
+// The worksheet list costs one query after the session lookup (which reads the account in
+// the same query, server/auth/session-store.ts): membership, page and count together. Counted with Sequelize's
 // logging hook on the in-process server; speed itself is measured by bench/api-load.bench.ts.
 import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
@@ -33,14 +33,14 @@ async function queriesDuring(work: () => Promise<unknown>): Promise<string[]> {
   return seen.filter((sql) => !/mail_/i.test(sql));
 }
 
-test('the list takes at most two queries after the session lookup (user, then membership + page + count)', async () => {
+test('the list takes one query after the session-and-account lookup (membership + page + count)', async () => {
   await author.get(`/api/groups/${groupId}/worksheets`); // warm
   for (const qs of ['', '?sort=title&direction=asc', '?search=mode&pageSize=2', '?sort=version&page=1&pageSize=1']) {
     let res: Awaited<ReturnType<ApiClient['get']>> | undefined;
     const sql = await queriesDuring(async () => (res = await author.get(`/api/groups/${groupId}/worksheets${qs}`)));
     assert.equal(res!.status, 200, res!.text);
     assert.ok(sql.length >= 1, 'the logging hook saw the queries');
-    assert.ok(sql.length <= 2, `list${qs} ran ${sql.length} queries:\n${sql.join('\n')}`);
+    assert.equal(sql.length, 1, `list${qs} ran ${sql.length} queries:\n${sql.join('\n')}`);
   }
 });
 
