@@ -4,6 +4,7 @@
 //
 //   dist/cli/main.mjs    the main thread (reads files, handles signals, prints)
 //   dist/cli/worker.mjs  an evaluation thread: cas/ and shared/ bundled into one module
+//   dist/server/evaluation-worker.mjs  the server's evaluation thread (worker-bundle.mjs)
 //
 // Packages from node_modules stay outside the bundle (Node loads them), except that the
 // symbolic algebra package (nerdamer, with its Calculus and Algebra extensions) is
@@ -47,5 +48,11 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
     const t = Date.now();
     await buildCli();
     console.log(`Built the command line to dist/cli/ in ${Date.now() - t} ms.`);
+    // The server's evaluation worker, the same core bundled for worker threads (the pool
+    // would otherwise build it in the background at its first start).
+    const { ensureWorkerBundle } = await import('../server/evaluation/worker-bundle.mjs');
+    const t2 = Date.now();
+    if (await ensureWorkerBundle()) console.log(`The server's evaluation worker is current in dist/server/ (${Date.now() - t2} ms).`);
+    else console.log('The server\'s evaluation worker was not built (esbuild missing or EVALUATION_WORKER_BUNDLE=0): workers run the sources through tsx.');
   }
 }
