@@ -1,5 +1,5 @@
 import { Router, type Request, type Response } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { sharedRateLimit } from '../middleware/shared-rate-limit.js';
 import { z } from 'zod';
 import { loginBody, registerBody } from '../../shared/api.js';
 import { currentUser, requireUser } from '../middleware/auth.js';
@@ -25,16 +25,7 @@ function signIn(req: Request, res: Response, user: User): Promise<void> {
 
 export function authRoutes(options: { loginRateLimit: number; signIn: SignInService }): Router {
   const router = Router();
-  const tooMany = (what: string) => ({
-    error: { code: 'rate_limited', message: `Too many ${what} attempts. Wait 15 minutes and try again.` },
-  });
-  const registerLimiter = rateLimit({
-    windowMs: 60 * 60_000,
-    limit: options.loginRateLimit,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    message: tooMany('registration'),
-  });
+  const registerLimiter = sharedRateLimit('register', 60 * 60_000, options.loginRateLimit, 'Too many registrations from this address in the last hour. Wait a while and try again.');
 
   router.post('/register', registerLimiter, async (req, res) => {
     const body = parseInput(registerBody, req.body);

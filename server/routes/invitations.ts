@@ -1,5 +1,5 @@
 import { Router, type Request, type Response } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { sharedRateLimit } from '../middleware/shared-rate-limit.js';
 import { acceptInvitationBody, inviteBody, type InvitationDto, type InvitationPreviewDto } from '../../shared/collaboration.js';
 import type { ServerConfig } from '../config.js';
 import type { Mailer } from '../mail/mailer.js';
@@ -24,13 +24,7 @@ export const invitationDto = (i: Invitation): InvitationDto => ({
 /** Routes under /api/groups/:groupId/invitations (owners only). */
 export function groupInvitationRoutes(config: ServerConfig, mailer: Mailer): Router {
   const router = Router({ mergeParams: true });
-  const limiter = rateLimit({
-    windowMs: 60 * 60_000,
-    limit: 50,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    message: { error: { code: 'rate_limited', message: 'Too many invitations in the last hour. Wait a while and try again.' } },
-  });
+  const limiter = sharedRateLimit('group-invite', 60 * 60_000, 50, 'Too many invitations in the last hour. Wait a while and try again.');
 
   router.get('/', async (req, res) => {
     const groupId = idParam((req.params as Record<string, string>)['groupId'], 'This group');

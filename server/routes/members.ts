@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { sharedRateLimit } from '../middleware/shared-rate-limit.js';
 import { addMemberBody, changeMemberBody, type MemberDto } from '../../shared/api.js';
 import type { ServerConfig } from '../config.js';
 import type { Mailer } from '../mail/mailer.js';
@@ -22,13 +22,7 @@ export function memberRoutes(config: ServerConfig, mailer: Mailer): Router {
   const router = Router({ mergeParams: true });
   const groupOf = (params: unknown) => idParam((params as Record<string, string>)['groupId'], 'This group');
   const memberOf = (params: unknown) => idParam((params as Record<string, string>)['userId'], 'This member');
-  const limiter = rateLimit({
-    windowMs: 60 * 60_000,
-    limit: 50,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    message: { error: { code: 'rate_limited', message: 'Too many invitations in the last hour. Wait a while and try again.' } },
-  });
+  const limiter = sharedRateLimit('members-invite', 60 * 60_000, 50, 'Too many invitations in the last hour. Wait a while and try again.');
 
   router.get('/', async (req, res) => {
     const groupId = groupOf(req.params);

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { sharedRateLimit } from '../middleware/shared-rate-limit.js';
 import { RESET_MINUTES, resetConfirmBody, resetRequestBody } from '../../shared/collaboration.js';
 import type { ServerConfig } from '../config.js';
 import type { Logger } from '../logger.js';
@@ -10,13 +10,7 @@ import { confirmPasswordReset, requestPasswordReset } from '../services/users.js
 /** Routes under /api/auth/password-reset. */
 export function passwordResetRoutes(config: ServerConfig, mailer: Mailer, logger: Logger): Router {
   const router = Router();
-  const limiter = rateLimit({
-    windowMs: 15 * 60_000,
-    limit: 10,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    message: { error: { code: 'rate_limited', message: 'Too many reset requests. Wait 15 minutes and try again.' } },
-  });
+  const limiter = sharedRateLimit('password-reset', 15 * 60_000, 10, 'Too many reset requests. Wait 15 minutes and try again.');
 
   // The same answer whether or not the address has an account, and in the same time: it
   // is sent before the account is even looked up; the link is made and queued afterwards.
