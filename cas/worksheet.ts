@@ -19,6 +19,8 @@ import { evaluateMoment } from './statements/moment.js';
 import { evaluateDerivative } from './statements/derivative.js';
 import { evaluateProduct } from './statements/product.js';
 import { evaluateDeterminant } from './statements/determinant.js';
+import { evaluateSliced } from './statements/sliced.js';
+import { evaluateLatticeSum } from './statements/latticeSum.js';
 import { clearDeadline, startDeadline, stoppedMessage, TimeLimitError, timeLimitMessage, type StopReason } from './deadline.js';
 
 export type StoppedStatement = { index: number } & StopReason;
@@ -73,13 +75,15 @@ function dispatch(s: Statement, ctx: Context): StatementReport {
     case 'derivative': return evaluateDerivative(s, ctx);
     case 'product': return evaluateProduct(s, ctx);
     case 'determinant': return evaluateDeterminant(s, ctx);
+    case 'sliced': return evaluateSliced(s, ctx);
+    case 'sum': return evaluateLatticeSum(s, ctx);
   }
 }
 
 function nameOf(s: Statement): string | null {
   switch (s.kind) {
     case 'param': return s.names.map((n) => n.name).join(', ');
-    case 'integral': case 'expect': case 'let': case 'moment': case 'derivative': case 'product': case 'determinant': return s.name.name;
+    case 'integral': case 'expect': case 'let': case 'moment': case 'derivative': case 'product': case 'determinant': case 'sliced': case 'sum': return s.name.name;
     case 'rotate': return s.as.name;
     case 'compare': return `${s.target.name}, ${s.other.name}`;
     case 'continue': case 'verify': case 'limit': return s.target.name;

@@ -8,7 +8,7 @@ import { diagramData } from './diagram.js';
 import { DOMAINS } from './language.js';
 
 export const STATEMENT_KINDS = [
-  'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'moment', 'derivative', 'product', 'determinant', 'invalid',
+  'param', 'integral', 'expect', 'note', 'rotate', 'continue', 'compare', 'verify', 'let', 'limit', 'moment', 'derivative', 'product', 'determinant', 'sliced', 'sum', 'invalid',
 ] as const;
 export type StatementKind = (typeof STATEMENT_KINDS)[number];
 
@@ -59,7 +59,7 @@ const CONVERGENCE_VERDICTS = ['absolute', 'oscillatory', 'divergent', 'piecewise
 
 /** The step kinds, each with the numbers that decided it; renderStep (shared/record) words them. */
 export const step = z.discriminatedUnion('kind', [
-  z.object({ kind: z.literal('param'), names: z.array(z.string()), domain: z.enum(DOMAINS) }),
+  z.object({ kind: z.literal('param'), names: z.array(z.string()), domain: z.enum(DOMAINS), /** declared `positive integer` */ integer: z.boolean().optional() }),
   z.object({ kind: z.literal('note'), text: z.string() }),
   z.object({
     kind: z.literal('quadratic-form'),
@@ -137,8 +137,9 @@ export const step = z.discriminatedUnion('kind', [
     counterexample: z.object({ at: pointValues, lhs: complexValue, rhs: complexValue.nullable() }).optional(),
     /** Where it holds and where not, when that changes inside the domain (exact conditions). */
     regions: z.array(region).default([]),
-    /** differs: the squares or exponentials differ exactly; sign: equal up to a sign read per cell; sampled. */
-    how: z.enum(['differs', 'sign', 'sampled']).default('sampled'),
+    /** differs: the squares or exponentials differ exactly; sign: equal up to a sign read per cell;
+     *  identical: the same rational function of the parameters and of exp/sinh/cosh/sin/cos values; sampled. */
+    how: z.enum(['differs', 'sign', 'identical', 'sampled']).default('sampled'),
   }),
   z.object({
     kind: z.literal('numeric-check'),
@@ -311,9 +312,104 @@ export const step = z.discriminatedUnion('kind', [
     result: formula,
     value: complexValue.nullable(),
     /** Why the product of the linear factors' regularised products equals the regularised product of P (no multiplicative anomaly). */
-    anomaly: z.enum(['linear', 'split-polynomial', 'all-integers', 'all-integers-quadratic']),
+    anomaly: z.enum(['linear', 'split-polynomial', 'all-integers', 'all-integers-quadratic', 'factored-polynomial', 'all-integers-even']),
     /** A formula used by name: lerch (prod (n + b) = sqrt(2*pi)/Gamma(b)), reflection (Gamma(1+x)*Gamma(1-x) = pi*x/sin(pi*x)), periodic (all integers). */
     formulas: z.array(z.enum(['lerch', 'reflection', 'all-integers'])),
+    /** Degree >= 3: P = leading * prod factor^power exactly, each factor monic of degree 1 or 2 in n (found numerically, confirmed by exact division); repeated: a square-free decomposition found a power. */
+    factorisation: z.object({ factors: z.array(z.object({ factor: formula, power: z.number().int().positive() })), repeated: z.boolean() }).optional(),
+  }),
+  z.object({
+    /**
+     * sum NAME = exp(-pi*a*n^2 + 2*pi*i*b*n + g) over all n, resummed by Poisson:
+     * sum_n exp(-pi*a*n^2 + 2*pi*i*b*n) = a^(-1/2) * sum_m exp(-pi*(m - b)^2/a) for Re a > 0, with
+     * the principal a^(-1/2) (the branch continuous from a > 0; Re a > 0 keeps a off the cut).
+     */
+    kind: z.literal('poisson-resummation'),
+    name: z.string(),
+    index: z.string(),
+    term: formula,
+    a: formula,
+    b: formula,
+    /** The n-free part g of the exponent (a factor exp(g)), or null. */
+    constant: formula.nullable(),
+    /** Re a > 0 on the declared domain: proved exactly, or at sample points (with the box). */
+    realPart: basis,
+    value: complexValue.nullable(),
+  }),
+  z.object({
+    /**
+     * The small-a form of a Gaussian sum: sum = exp(g) * a^(-1/2) * (exp(-pi*(m0 - b)^2/a) + R),
+     * m0 the integer nearest c = Re b - Im b*Im(1/a)/Re(1/a), with the stated bound on |R|.
+     */
+    kind: z.literal('small-parameter-form'),
+    name: z.string(),
+    leading: formula,
+    /** m0 when it is decided (b = 0, or numbers); null: the nearest integer to c at each point. */
+    nearest: z.number().nullable(),
+    /** The bound on |R| as a formula in s = Re(1/a) (and Im b, |1/a| when b is not real), and its number where params are numbers. */
+    bound: formula,
+    boundValue: z.number().nullable(),
+  }),
+  z.object({
+    /**
+     * A modular transformation used by the exact expansion: eta(tau) = (-i*tau)^(-1/2) * eta(-1/tau)
+     * or a Gaussian sum's Poisson dual, with the leading factor kept and the rest an exponentially
+     * small remainder, bounded beyond all orders of the expansion parameter.
+     */
+    kind: z.literal('modular'),
+    of: z.enum(['eta', 'sum']),
+    /** The sum's name, or the eta call as written. */
+    label: z.string(),
+    argument: formula,
+    dual: formula,
+    leading: formula,
+    /** |remainder| <= bound (relative), the rate exp(-c/u) read off the dual argument. */
+    bound: formula,
+  }),
+  z.object({
+    /**
+     * verify of a Gaussian sum, or of a derived quantity built from sums and eta: the definitions
+     * summed and multiplied term by term (no Poisson resummation, no modular transformation) until
+     * the terms stop changing the result, against the closed-form value.
+     */
+    kind: z.literal('series-check'),
+    name: z.string(),
+    at: pointValues,
+    value: complexValue,
+    closed: complexValue,
+    /** Terms (sum) or factors (eta products) used, and the size of the last one. */
+    terms: z.number(),
+    lastTerm: z.number(),
+    relativeDifference: z.number(),
+    tolerance: z.number(),
+    agrees: z.boolean(),
+  }),
+  z.object({
+    /**
+     * sliced NAME = V on interval L | on circle beta ... with N slices: the time-sliced
+     * determinant. eps = L/N; interval (Dirichlet): the (N-1)x(N-1) tridiagonal matrix with
+     * 2 + eps^2 V on the diagonal and -1 beside it, by its recursion, as the ratio to V = 0;
+     * circle: the N x N circulant (corners -1 periodic, +1 antiperiodic), by its eigenvalues.
+     */
+    kind: z.literal('time-slicing'),
+    name: z.string(),
+    potential: formula,
+    shape: z.enum(['interval', 'circle']),
+    conditions: z.enum(['dirichlet', 'periodic', 'antiperiodic']),
+    length: formula,
+    slices: formula,
+    /** exact: V constant, closed form in N; matrix: V depends on t, N a number, the determinant by elimination. */
+    method: z.enum(['exact', 'matrix']),
+    /** The chosen theta with cosh(theta) = 1 + eps^2 V/2 (exact method). */
+    theta: formula.nullable(),
+    /** real: V >= 0 on the whole domain, theta real >= 0; any: V may be negative or complex, and the result (a polynomial in cosh(theta)) does not depend on the root taken. */
+    thetaBranch: z.enum(['real', 'any']).nullable(),
+    result: formula.nullable(),
+    value: complexValue.nullable(),
+    /** Periodic at V = 0: the constant zero mode removed, det' = N^2 (prod over k = 1..N-1 of 4*sin(pi*k/N)^2). */
+    zeroMode: z.boolean(),
+    /** The closed form against the determinant of the explicit matrix by LU elimination: slice counts, points, worst relative difference. */
+    checks: z.object({ slices: z.array(z.number()), points: z.number(), worst: z.number() }).nullable(),
   }),
   z.object({
     /** determinant NAME = V on interval L / on circle beta: det(-d^2/dt^2 + V). */
@@ -368,6 +464,8 @@ export const step = z.discriminatedUnion('kind', [
     rate: formula.optional(),
     /** For an unknown limit: why the exact expansion could not decide it. */
     reason: z.string().optional(),
+    /** An exponentially small remainder beyond all orders (from modular transformations): its O-term and, when every constant is known, a bound valid once each of its terms is below 1/2. */
+    remainder: z.object({ order: formula, bound: formula.nullable() }).optional(),
   }),
 ]);
 export type Step = z.infer<typeof step>;

@@ -11,7 +11,7 @@
 
 /** Statement keywords with their form, a worked example and a sentence of help. */
 export const STATEMENTS = {
-  param: { form: 'param NAME, ... : DOMAIN', example: 'param k : positive', help: 'Declare parameters and their domain.' },
+  param: { form: 'param NAME, ... : DOMAIN | positive integer', example: 'param k : positive', help: 'Declare parameters and their domain; `positive integer` declares a count, such as a number of slices.' },
   integral: { form: 'integral NAME = EXPR d(VARS) [d(VARS : complex) d(VARS : grassmann)]', example: 'integral Z = exp(-k*x^2/2) d(x)', help: 'A Gaussian integral over real variables, complex variables (d^2z = dx dy) or Grassmann variables (Berezin, integrated in the order written).' },
   expect: { form: 'expect NAME = EXPR', example: 'expect Z = sqrt(2*pi/k)', help: 'State the expected value; a mismatch fails the worksheet.' },
   let: { form: 'let NAME = EXPR', example: 'let F = -log(Z)', help: 'Name a quantity derived from results and parameters.' },
@@ -24,13 +24,15 @@ export const STATEMENTS = {
   derivative: { form: 'derivative NAME = EXPR by PARAM', example: 'derivative E = -log(Z) by beta', help: 'The exact derivative of a quantity built from results and parameters.' },
   product: { form: 'product NAME = POLYNOMIAL over n >= 1 | n >= 0 | all n', example: 'product P = n^2 + a^2 over n >= 1', help: 'A product over infinitely many modes, regularised by its zeta function, in closed form.' },
   determinant: { form: 'determinant NAME = V on interval L | on circle BETA periodic | antiperiodic', example: 'determinant D = w^2 on interval L', help: 'The determinant of -d^2/dt^2 + V(t) (V in the variable t): on an interval with Dirichlet ends as the ratio to V = 0, on a circle zeta-regularised.' },
+  sliced: { form: 'sliced NAME = V on interval L | on circle BETA periodic | antiperiodic with N slices', example: 'sliced S = w^2 on interval L with N slices', help: 'The time-sliced determinant of -d^2/dt^2 + V with N slices (N a number or a positive integer parameter): on an interval as the ratio to V = 0, on a circle the circulant\'s determinant; its N -> inf limit is the functional determinant.' },
+  sum: { form: 'sum NAME = exp(QUADRATIC in n) over all n', example: 'sum Z = exp(-pi*a*n^2 + 2*pi*i*b*n) over all n', help: 'A Gaussian sum over the integers (a theta function), resummed by Poisson: the value, the branch of a^(-1/2), and the small-a form with a bound on its remainder.' },
   note: { form: 'note "TEXT"', example: 'note "Euclidean version first."', help: 'Free text kept with the record.' },
 } as const;
 export type StatementKeyword = keyof typeof STATEMENTS;
 export const STATEMENT_KEYWORDS = Object.keys(STATEMENTS) as StatementKeyword[];
 
 /** Words that appear inside statements (after the keyword). */
-export const CLAUSE_WORDS = ['along', 'as', 'at', 'with', 'tolerance', 'steepest', 'inf', 'under', 'by', 'grassmann', 'over', 'all', 'on', 'interval', 'circle', 'periodic', 'antiperiodic'] as const;
+export const CLAUSE_WORDS = ['along', 'as', 'at', 'with', 'tolerance', 'steepest', 'inf', 'under', 'by', 'grassmann', 'over', 'all', 'on', 'interval', 'circle', 'periodic', 'antiperiodic', 'slices', 'integer'] as const;
 
 export const DOMAINS = ['positive', 'negative', 'real', 'complex', 'nonzero'] as const;
 export type Domain = (typeof DOMAINS)[number];
@@ -51,7 +53,9 @@ export const FUNCTIONS = {
   cos: 'cosine',
   sinh: 'hyperbolic sine',
   cosh: 'hyperbolic cosine',
+  asinh: 'inverse hyperbolic sine (principal: cuts along the imaginary axis beyond +-i)',
   Gamma: 'Euler\'s Gamma function (principal: analytic except at 0, -1, -2, ...)',
+  eta: 'the Dedekind eta function q^(1/24)*prod (1 - q^n), q = exp(2*pi*i*tau), for Im tau > 0 (for q = exp(-beta) write eta(i*beta/(2*pi)))',
   conj: 'complex conjugate; conj(z) of a complex integration variable z is its own variable',
 } as const;
 export type FunctionName = keyof typeof FUNCTIONS;

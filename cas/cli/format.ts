@@ -1,9 +1,7 @@
 /** The readable (non-JSON) report of the command line tool; every step worded by the shared renderer. */
 import type { StatementReport, WorksheetReport } from '../../shared/evaluation.js';
-import { renderStep } from '../../shared/record/render.js';
+import { quarterPhase, renderStep } from '../../shared/record/render.js';
 import { complexApprox } from '../../shared/record/numbers.js';
-
-const quarterPhase = (m: number) => (m === 1 ? 'exp(i*pi/4)' : m === -1 ? 'exp(-i*pi/4)' : `exp(${m}*i*pi/4)`);
 
 /** One statement's lines of the readable report (the command line's threads send these as statements finish). */
 export function statementLines(s: StatementReport): string[] {
@@ -24,7 +22,8 @@ export function statementLines(s: StatementReport): string[] {
   if (s.branch) out.push(`  branch: principal sqrt(det A) ${{ right: 'is correct', wrong: 'is NOT correct', piecewise: 'is correct only on part of the domain', unknown: 'undecided' }[s.branch.principal]}`);
   if (s.legal !== undefined) out.push(`  legal: ${s.legal}`);
   if (s.sheet) out.push(`  sheet: ${s.sheet}`);
-  if (s.verdict) out.push(`  verdict: ${s.verdict}${s.phaseOverPiQuarter !== undefined && s.phaseOverPiQuarter !== null ? ` (phase ${quarterPhase(s.phaseOverPiQuarter)})` : ''}`);
+  // the phase only where it is the verdict (an equal pair has ratio 1)
+  if (s.verdict) out.push(`  verdict: ${s.verdict}${s.verdict === 'phase' && s.phaseOverPiQuarter !== undefined && s.phaseOverPiQuarter !== null ? ` (phase ${quarterPhase(s.phaseOverPiQuarter)})` : ''}`);
   if (s.agrees !== undefined) out.push(`  agrees: ${s.agrees}`);
   s.steps.forEach((st, k) => out.push(`  ${k + 1}. [${st.kind}] ${renderStep(st).text}`));
   return out;

@@ -1,6 +1,7 @@
 /** Numeric evaluation of an expression in complex double precision, principal branches throughout. */
 import { Complex } from 'complex.js';
 import type { Expr } from '../lang/ast.js';
+import { etaValue } from '../numeric/lattice.js';
 
 export type Env = ReadonlyMap<string, Complex>;
 
@@ -12,9 +13,11 @@ const FN: Record<string, (z: Complex) => Complex> = {
   cos: (z) => z.cos(),
   sinh: (z) => z.sinh(),
   cosh: (z) => z.cosh(),
+  asinh: (z) => z.asinh(),
   abs: (z) => new Complex(z.abs(), 0),
   conj: (z) => z.conjugate(),
   Gamma: (z) => gammaComplex(z),
+  eta: (z) => etaValue(z),
 };
 
 /** Lanczos coefficients (g = 7, n = 9): about 15 digits in the right half plane. */

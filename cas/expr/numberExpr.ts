@@ -20,3 +20,27 @@ export function complexExpr(z: { re: number; im: number }): Expr {
   const signed = im < 0 ? neg(imag) : imag;
   return re === 0 ? signed : add(realExpr(re), signed);
 }
+
+/**
+ * `e` with every decimal the user typed written as the exact fraction it stands for
+ * (0.3 is 3/10): a printed result then shows exact constants, never an exact-looking
+ * decimal. Whole numbers and the rest of the tree are unchanged.
+ */
+export function exactDecimals(e: Expr): Expr {
+  switch (e.t) {
+    case 'num': {
+      const m = /^(\d*)\.(\d+)$/.exec(e.v);
+      if (!m) return e;
+      let n = BigInt((m[1] || '0') + m[2]!);
+      let d = 10n ** BigInt(m[2]!.length);
+      const gcd = (a: bigint, b: bigint): bigint => (b ? gcd(b, a % b) : a);
+      const g = gcd(n, d) || 1n;
+      n /= g; d /= g;
+      return d === 1n ? num(n.toString()) : div(num(n.toString()), num(d.toString()));
+    }
+    case 'const': case 'name': return e;
+    case 'neg': return neg(exactDecimals(e.a));
+    case 'bin': return { ...e, a: exactDecimals(e.a), b: exactDecimals(e.b) };
+    case 'call': return { ...e, args: e.args.map(exactDecimals) };
+  }
+}

@@ -57,7 +57,7 @@ function latexName(n: string): string {
   return subscript !== undefined ? `${head}_{${subscript.replace(/_/g, '\\_')}}` : head;
 }
 
-const FN_TEX: Record<string, string> = { tan: '\\tan', log: '\\log', sin: '\\sin', cos: '\\cos', sinh: '\\sinh', cosh: '\\cosh', exp: '\\exp', Gamma: '\\Gamma' };
+const FN_TEX: Record<string, string> = { tan: '\\tan', log: '\\log', sin: '\\sin', cos: '\\cos', sinh: '\\sinh', cosh: '\\cosh', exp: '\\exp', Gamma: '\\Gamma', asinh: '\\operatorname{arsinh}', eta: '\\eta' };
 
 function startsWithDigit(tex: string): boolean { return /^[0-9]/.test(tex); }
 

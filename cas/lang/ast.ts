@@ -18,7 +18,7 @@ export type Expr =
 export interface NameRef { name: string; span: Span }
 
 export type Statement =
-  | { kind: 'param'; names: NameRef[]; domain: Domain; span: Span }
+  | { kind: 'param'; names: NameRef[]; domain: Domain; /** `positive integer`: domain positive, values whole numbers. */ integer?: true; span: Span }
   | { kind: 'integral'; name: NameRef; integrand: Expr; vars: NameRef[]; kinds?: VariableKind[]; span: Span }
   | { kind: 'expect'; name: NameRef; expr: Expr; span: Span }
   | { kind: 'note'; text: string; span: Span }
@@ -31,7 +31,9 @@ export type Statement =
   | { kind: 'moment'; name: NameRef; expr: Expr; target: NameRef; span: Span }
   | { kind: 'derivative'; name: NameRef; expr: Expr; param: NameRef; span: Span }
   | { kind: 'product'; name: NameRef; factor: Expr; index: NameRef; from: 0 | 1 | 'all'; span: Span }
-  | { kind: 'determinant'; name: NameRef; potential: Expr; shape: 'interval' | 'circle'; length: Expr; conditions: 'dirichlet' | 'periodic' | 'antiperiodic'; span: Span };
+  | { kind: 'determinant'; name: NameRef; potential: Expr; shape: 'interval' | 'circle'; length: Expr; conditions: 'dirichlet' | 'periodic' | 'antiperiodic'; span: Span }
+  | { kind: 'sum'; name: NameRef; term: Expr; index: NameRef; span: Span }
+  | { kind: 'sliced'; name: NameRef; potential: Expr; shape: 'interval' | 'circle'; length: Expr; conditions: 'dirichlet' | 'periodic' | 'antiperiodic'; slices: Expr; span: Span };
 
 /** An integration variable's kind: real (dx), complex (d^2z = dx dy), or Grassmann (Berezin). */
 export type VariableKind = 'real' | 'complex' | 'grassmann';

@@ -176,51 +176,55 @@ function peg$parse(input, options) {
   const peg$c2 = ":";
   const peg$c3 = ",";
   const peg$c4 = "positive";
-  const peg$c5 = "negative";
-  const peg$c6 = "real";
-  const peg$c7 = "complex";
-  const peg$c8 = "nonzero";
-  const peg$c9 = "integral";
-  const peg$c10 = "=";
-  const peg$c11 = "d";
-  const peg$c12 = "(";
-  const peg$c13 = ")";
-  const peg$c14 = "grassmann";
-  const peg$c15 = "moment";
-  const peg$c16 = "under";
-  const peg$c17 = "derivative";
-  const peg$c18 = "by";
-  const peg$c19 = "product";
-  const peg$c20 = "over";
-  const peg$c21 = "all";
-  const peg$c22 = ">=";
-  const peg$c23 = "determinant";
-  const peg$c24 = "on";
-  const peg$c25 = "interval";
-  const peg$c26 = "circle";
-  const peg$c27 = "periodic";
-  const peg$c28 = "antiperiodic";
-  const peg$c29 = "expect";
-  const peg$c30 = "let";
-  const peg$c31 = "note";
-  const peg$c32 = "\"";
-  const peg$c33 = "rotate";
-  const peg$c34 = "as";
-  const peg$c35 = "->";
-  const peg$c36 = "steepest";
-  const peg$c37 = "continue";
-  const peg$c38 = "along";
-  const peg$c39 = "at";
-  const peg$c40 = "compare";
-  const peg$c41 = "with";
-  const peg$c42 = "verify";
-  const peg$c43 = "tolerance";
-  const peg$c44 = ".";
-  const peg$c45 = "-";
-  const peg$c46 = "limit";
-  const peg$c47 = "inf";
-  const peg$c48 = "+";
-  const peg$c49 = "^";
+  const peg$c5 = "integer";
+  const peg$c6 = "negative";
+  const peg$c7 = "real";
+  const peg$c8 = "complex";
+  const peg$c9 = "nonzero";
+  const peg$c10 = "integral";
+  const peg$c11 = "=";
+  const peg$c12 = "d";
+  const peg$c13 = "(";
+  const peg$c14 = ")";
+  const peg$c15 = "grassmann";
+  const peg$c16 = "moment";
+  const peg$c17 = "under";
+  const peg$c18 = "derivative";
+  const peg$c19 = "by";
+  const peg$c20 = "product";
+  const peg$c21 = "over";
+  const peg$c22 = "all";
+  const peg$c23 = ">=";
+  const peg$c24 = "sum";
+  const peg$c25 = "determinant";
+  const peg$c26 = "on";
+  const peg$c27 = "interval";
+  const peg$c28 = "circle";
+  const peg$c29 = "periodic";
+  const peg$c30 = "antiperiodic";
+  const peg$c31 = "sliced";
+  const peg$c32 = "with";
+  const peg$c33 = "slices";
+  const peg$c34 = "expect";
+  const peg$c35 = "let";
+  const peg$c36 = "note";
+  const peg$c37 = "\"";
+  const peg$c38 = "rotate";
+  const peg$c39 = "as";
+  const peg$c40 = "->";
+  const peg$c41 = "steepest";
+  const peg$c42 = "continue";
+  const peg$c43 = "along";
+  const peg$c44 = "at";
+  const peg$c45 = "compare";
+  const peg$c46 = "verify";
+  const peg$c47 = "tolerance";
+  const peg$c48 = ".";
+  const peg$c49 = "-";
+  const peg$c50 = "limit";
+  const peg$c51 = "inf";
+  const peg$c52 = "+";
+  const peg$c53 = "^";
 
   const peg$r0 = /^[^\n]/;
   const peg$r1 = /^[0-1]/;
@@ -243,142 +247,150 @@ function peg$parse(input, options) {
   const peg$e7 = peg$literalExpectation(",", false);
   const peg$e8 = peg$otherExpectation("a domain (positive, negative, real, complex or nonzero)");
   const peg$e9 = peg$literalExpectation("positive", false);
-  const peg$e10 = peg$literalExpectation("negative", false);
-  const peg$e11 = peg$literalExpectation("real", false);
-  const peg$e12 = peg$literalExpectation("complex", false);
-  const peg$e13 = peg$literalExpectation("nonzero", false);
-  const peg$e14 = peg$literalExpectation("integral", false);
-  const peg$e15 = peg$literalExpectation("=", false);
-  const peg$e16 = peg$literalExpectation("d", false);
-  const peg$e17 = peg$literalExpectation("(", false);
-  const peg$e18 = peg$literalExpectation(")", false);
-  const peg$e19 = peg$otherExpectation("a kind of variable (real, complex or grassmann)");
-  const peg$e20 = peg$literalExpectation("grassmann", false);
-  const peg$e21 = peg$literalExpectation("moment", false);
-  const peg$e22 = peg$literalExpectation("under", false);
-  const peg$e23 = peg$literalExpectation("derivative", false);
-  const peg$e24 = peg$literalExpectation("by", false);
-  const peg$e25 = peg$literalExpectation("product", false);
-  const peg$e26 = peg$literalExpectation("over", false);
-  const peg$e27 = peg$otherExpectation("a range of modes (n >= 0, n >= 1 or all n)");
-  const peg$e28 = peg$literalExpectation("all", false);
-  const peg$e29 = peg$literalExpectation(">=", false);
-  const peg$e30 = peg$classExpectation([["0", "1"]], false, false, false);
-  const peg$e31 = peg$literalExpectation("determinant", false);
-  const peg$e32 = peg$literalExpectation("on", false);
-  const peg$e33 = peg$literalExpectation("interval", false);
-  const peg$e34 = peg$literalExpectation("circle", false);
-  const peg$e35 = peg$literalExpectation("periodic", false);
-  const peg$e36 = peg$literalExpectation("antiperiodic", false);
-  const peg$e37 = peg$literalExpectation("expect", false);
-  const peg$e38 = peg$literalExpectation("let", false);
-  const peg$e39 = peg$literalExpectation("note", false);
-  const peg$e40 = peg$otherExpectation("a text in double quotes");
-  const peg$e41 = peg$literalExpectation("\"", false);
-  const peg$e42 = peg$classExpectation(["\"", "\n"], true, false, false);
-  const peg$e43 = peg$literalExpectation("rotate", false);
-  const peg$e44 = peg$literalExpectation("as", false);
-  const peg$e45 = peg$otherExpectation("a rotation such as x -> exp(i*theta)*x or x -> steepest");
-  const peg$e46 = peg$literalExpectation("->", false);
-  const peg$e47 = peg$literalExpectation("steepest", false);
-  const peg$e48 = peg$literalExpectation("continue", false);
-  const peg$e49 = peg$literalExpectation("along", false);
-  const peg$e50 = peg$otherExpectation("a parameter, or parameters in parentheses");
-  const peg$e51 = peg$otherExpectation("a point of the path (an expression, or a tuple in parentheses)");
-  const peg$e52 = peg$literalExpectation("at", false);
-  const peg$e53 = peg$otherExpectation("a value such as k = 2");
-  const peg$e54 = peg$literalExpectation("compare", false);
-  const peg$e55 = peg$literalExpectation("with", false);
-  const peg$e56 = peg$literalExpectation("verify", false);
-  const peg$e57 = peg$literalExpectation("tolerance", false);
-  const peg$e58 = peg$otherExpectation("a number");
-  const peg$e59 = peg$classExpectation([["0", "9"]], false, false, false);
-  const peg$e60 = peg$literalExpectation(".", false);
-  const peg$e61 = peg$classExpectation(["e", "E"], false, false, false);
-  const peg$e62 = peg$literalExpectation("-", false);
-  const peg$e63 = peg$literalExpectation("limit", false);
-  const peg$e64 = peg$otherExpectation("a value, inf or -inf");
-  const peg$e65 = peg$literalExpectation("inf", false);
-  const peg$e66 = peg$classExpectation(["+", "-"], false, false, false);
-  const peg$e67 = peg$classExpectation(["*", "/"], false, false, false);
-  const peg$e68 = peg$literalExpectation("+", false);
-  const peg$e69 = peg$literalExpectation("^", false);
-  const peg$e70 = peg$otherExpectation("a name");
-  const peg$e71 = peg$classExpectation([["A", "Z"], ["a", "z"]], false, false, false);
-  const peg$e72 = peg$classExpectation([["A", "Z"], ["a", "z"], ["0", "9"], "_"], false, false, false);
-  const peg$e73 = peg$otherExpectation("a space");
-  const peg$e74 = peg$classExpectation([" ", "\t"], false, false, false);
+  const peg$e10 = peg$literalExpectation("integer", false);
+  const peg$e11 = peg$literalExpectation("negative", false);
+  const peg$e12 = peg$literalExpectation("real", false);
+  const peg$e13 = peg$literalExpectation("complex", false);
+  const peg$e14 = peg$literalExpectation("nonzero", false);
+  const peg$e15 = peg$literalExpectation("integral", false);
+  const peg$e16 = peg$literalExpectation("=", false);
+  const peg$e17 = peg$literalExpectation("d", false);
+  const peg$e18 = peg$literalExpectation("(", false);
+  const peg$e19 = peg$literalExpectation(")", false);
+  const peg$e20 = peg$otherExpectation("a kind of variable (real, complex or grassmann)");
+  const peg$e21 = peg$literalExpectation("grassmann", false);
+  const peg$e22 = peg$literalExpectation("moment", false);
+  const peg$e23 = peg$literalExpectation("under", false);
+  const peg$e24 = peg$literalExpectation("derivative", false);
+  const peg$e25 = peg$literalExpectation("by", false);
+  const peg$e26 = peg$literalExpectation("product", false);
+  const peg$e27 = peg$literalExpectation("over", false);
+  const peg$e28 = peg$otherExpectation("a range of modes (n >= 0, n >= 1 or all n)");
+  const peg$e29 = peg$literalExpectation("all", false);
+  const peg$e30 = peg$literalExpectation(">=", false);
+  const peg$e31 = peg$classExpectation([["0", "1"]], false, false, false);
+  const peg$e32 = peg$literalExpectation("sum", false);
+  const peg$e33 = peg$literalExpectation("determinant", false);
+  const peg$e34 = peg$literalExpectation("on", false);
+  const peg$e35 = peg$literalExpectation("interval", false);
+  const peg$e36 = peg$literalExpectation("circle", false);
+  const peg$e37 = peg$literalExpectation("periodic", false);
+  const peg$e38 = peg$literalExpectation("antiperiodic", false);
+  const peg$e39 = peg$literalExpectation("sliced", false);
+  const peg$e40 = peg$literalExpectation("with", false);
+  const peg$e41 = peg$literalExpectation("slices", false);
+  const peg$e42 = peg$literalExpectation("expect", false);
+  const peg$e43 = peg$literalExpectation("let", false);
+  const peg$e44 = peg$literalExpectation("note", false);
+  const peg$e45 = peg$otherExpectation("a text in double quotes");
+  const peg$e46 = peg$literalExpectation("\"", false);
+  const peg$e47 = peg$classExpectation(["\"", "\n"], true, false, false);
+  const peg$e48 = peg$literalExpectation("rotate", false);
+  const peg$e49 = peg$literalExpectation("as", false);
+  const peg$e50 = peg$otherExpectation("a rotation such as x -> exp(i*theta)*x or x -> steepest");
+  const peg$e51 = peg$literalExpectation("->", false);
+  const peg$e52 = peg$literalExpectation("steepest", false);
+  const peg$e53 = peg$literalExpectation("continue", false);
+  const peg$e54 = peg$literalExpectation("along", false);
+  const peg$e55 = peg$otherExpectation("a parameter, or parameters in parentheses");
+  const peg$e56 = peg$otherExpectation("a point of the path (an expression, or a tuple in parentheses)");
+  const peg$e57 = peg$literalExpectation("at", false);
+  const peg$e58 = peg$otherExpectation("a value such as k = 2");
+  const peg$e59 = peg$literalExpectation("compare", false);
+  const peg$e60 = peg$literalExpectation("verify", false);
+  const peg$e61 = peg$literalExpectation("tolerance", false);
+  const peg$e62 = peg$otherExpectation("a number");
+  const peg$e63 = peg$classExpectation([["0", "9"]], false, false, false);
+  const peg$e64 = peg$literalExpectation(".", false);
+  const peg$e65 = peg$classExpectation(["e", "E"], false, false, false);
+  const peg$e66 = peg$literalExpectation("-", false);
+  const peg$e67 = peg$literalExpectation("limit", false);
+  const peg$e68 = peg$otherExpectation("a value, inf or -inf");
+  const peg$e69 = peg$literalExpectation("inf", false);
+  const peg$e70 = peg$classExpectation(["+", "-"], false, false, false);
+  const peg$e71 = peg$classExpectation(["*", "/"], false, false, false);
+  const peg$e72 = peg$literalExpectation("+", false);
+  const peg$e73 = peg$literalExpectation("^", false);
+  const peg$e74 = peg$otherExpectation("a name");
+  const peg$e75 = peg$classExpectation([["A", "Z"], ["a", "z"]], false, false, false);
+  const peg$e76 = peg$classExpectation([["A", "Z"], ["a", "z"], ["0", "9"], "_"], false, false, false);
+  const peg$e77 = peg$otherExpectation("a space");
+  const peg$e78 = peg$classExpectation([" ", "\t"], false, false, false);
 
   function peg$f0(s) {    return s;  }
-  function peg$f1(names, domain) {    return { kind: 'param', names, domain, span: span() };  }
+  function peg$f1(names, domain) {    return domain.integer ? { kind: 'param', names, domain: domain.d, integer: true, span: span() } : { kind: 'param', names, domain: domain.d, span: span() };  }
   function peg$f2(head, n) {    return n;  }
   function peg$f3(head, tail) {    return [head, ...tail];  }
-  function peg$f4(d) {    return d;  }
-  function peg$f5(name, integrand, groups) {
+  function peg$f4() {    return { d: 'positive', integer: true };  }
+  function peg$f5(d) {    return { d };  }
+  function peg$f6(name, integrand, groups) {
     const vars = groups.flatMap((g) => g.vars);
     const kinds = groups.flatMap((g) => g.vars.map(() => g.kind));
     return { kind: 'integral', name, integrand, vars, kinds, span: span() };
   }
-  function peg$f6(head, m) {    return m;  }
-  function peg$f7(head, tail) {    return [head, ...tail];  }
-  function peg$f8(vars, k) {    return k;  }
-  function peg$f9(vars, kind) {    return { vars, kind: kind ?? 'real' };  }
-  function peg$f10(k) {    return k;  }
-  function peg$f11(name, expr, target) {    return { kind: 'moment', name, expr, target, span: span() };  }
-  function peg$f12(name, expr, param) {    return { kind: 'derivative', name, expr, param, span: span() };  }
-  function peg$f13(name, factor, range) {    return { kind: 'product', name, factor, index: range.index, from: range.from, span: span() };  }
-  function peg$f14(index) {    return { index, from: 'all' };  }
-  function peg$f15(index, from) {    return { index, from: Number(from) };  }
-  function peg$f16(name, potential, length) {    return { kind: 'determinant', name, potential, shape: 'interval', length, conditions: 'dirichlet', span: span() };  }
-  function peg$f17(name, potential, length, conditions) {    return { kind: 'determinant', name, potential, shape: 'circle', length, conditions, span: span() };  }
-  function peg$f18(name, expr) {    return { kind: 'expect', name, expr, span: span() };  }
-  function peg$f19(name, expr) {    return { kind: 'let', name, expr, span: span() };  }
-  function peg$f20(text) {    return { kind: 'note', text, span: span() };  }
-  function peg$f21(chars) {    return chars;  }
-  function peg$f22(target, moves, as) {    return { kind: 'rotate', target, moves, as, span: span() };  }
-  function peg$f23(head, m) {    return m;  }
-  function peg$f24(head, tail) {    return [head, ...tail];  }
-  function peg$f25(variable) {    return { variable, to: 'steepest' };  }
-  function peg$f26(variable, to) {    return { variable, to };  }
-  function peg$f27(target, params, points, at) {    return { kind: 'continue', target, params, points, at: at ?? [], span: span() };  }
-  function peg$f28(names) {    return names;  }
-  function peg$f29(n) {    return [n];  }
-  function peg$f30(head, p) {    return p;  }
-  function peg$f31(head, tail) {    return [head, ...tail];  }
-  function peg$f32(head, e) {    return e;  }
-  function peg$f33(head, tail) {    return [head, ...tail];  }
-  function peg$f34(e) {    return [e];  }
-  function peg$f35(bindings) {    return bindings;  }
-  function peg$f36(head, b) {    return b;  }
+  function peg$f7(head, m) {    return m;  }
+  function peg$f8(head, tail) {    return [head, ...tail];  }
+  function peg$f9(vars, k) {    return k;  }
+  function peg$f10(vars, kind) {    return { vars, kind: kind ?? 'real' };  }
+  function peg$f11(k) {    return k;  }
+  function peg$f12(name, expr, target) {    return { kind: 'moment', name, expr, target, span: span() };  }
+  function peg$f13(name, expr, param) {    return { kind: 'derivative', name, expr, param, span: span() };  }
+  function peg$f14(name, factor, range) {    return { kind: 'product', name, factor, index: range.index, from: range.from, span: span() };  }
+  function peg$f15(index) {    return { index, from: 'all' };  }
+  function peg$f16(index, from) {    return { index, from: Number(from) };  }
+  function peg$f17(name, term, index) {    return { kind: 'sum', name, term, index, span: span() };  }
+  function peg$f18(name, potential, length) {    return { kind: 'determinant', name, potential, shape: 'interval', length, conditions: 'dirichlet', span: span() };  }
+  function peg$f19(name, potential, length, conditions) {    return { kind: 'determinant', name, potential, shape: 'circle', length, conditions, span: span() };  }
+  function peg$f20(name, potential, length, slices) {    return { kind: 'sliced', name, potential, shape: 'interval', length, conditions: 'dirichlet', slices, span: span() };  }
+  function peg$f21(name, potential, length, conditions, slices) {    return { kind: 'sliced', name, potential, shape: 'circle', length, conditions, slices, span: span() };  }
+  function peg$f22(name, expr) {    return { kind: 'expect', name, expr, span: span() };  }
+  function peg$f23(name, expr) {    return { kind: 'let', name, expr, span: span() };  }
+  function peg$f24(text) {    return { kind: 'note', text, span: span() };  }
+  function peg$f25(chars) {    return chars;  }
+  function peg$f26(target, moves, as) {    return { kind: 'rotate', target, moves, as, span: span() };  }
+  function peg$f27(head, m) {    return m;  }
+  function peg$f28(head, tail) {    return [head, ...tail];  }
+  function peg$f29(variable) {    return { variable, to: 'steepest' };  }
+  function peg$f30(variable, to) {    return { variable, to };  }
+  function peg$f31(target, params, points, at) {    return { kind: 'continue', target, params, points, at: at ?? [], span: span() };  }
+  function peg$f32(names) {    return names;  }
+  function peg$f33(n) {    return [n];  }
+  function peg$f34(head, p) {    return p;  }
+  function peg$f35(head, tail) {    return [head, ...tail];  }
+  function peg$f36(head, e) {    return e;  }
   function peg$f37(head, tail) {    return [head, ...tail];  }
-  function peg$f38(name, value) {    return { name, value };  }
-  function peg$f39(target, other) {    return { kind: 'compare', target, other, span: span() };  }
-  function peg$f40(target, at, tol) {    return { kind: 'verify', target, at: at ?? [], tolerance: tol ?? null, span: span() };  }
-  function peg$f41(t) {    return t;  }
-  function peg$f42(v) {    return { t: 'num', v: String(Number(v)), span: span() };  }
-  function peg$f43(target, param, to) {    return { kind: 'limit', target, param, to, span: span() };  }
-  function peg$f44() {    return '-inf';  }
-  function peg$f45() {    return 'inf';  }
-  function peg$f46(head, op, b) {    return [op, b];  }
-  function peg$f47(head, tail) {    return bin(head, tail);  }
-  function peg$f48(head, op, b) {    return [op, b];  }
-  function peg$f49(head, tail) {    return bin(head, tail);  }
-  function peg$f50(a) {    return { t: 'neg', a, span: span() };  }
-  function peg$f51(a) {    return a;  }
-  function peg$f52(base, e) {    return e;  }
-  function peg$f53(base, exp) {    return exp === null ? base : { t: 'bin', op: '^', a: base, b: exp, span: span() };  }
-  function peg$f54(e) {    return e;  }
-  function peg$f55(fn, args) {    return { t: 'call', fn, args, span: span() };  }
-  function peg$f56(head, e) {    return e;  }
-  function peg$f57(head, tail) {    return [head, ...tail];  }
-  function peg$f58(name) {
+  function peg$f38(e) {    return [e];  }
+  function peg$f39(bindings) {    return bindings;  }
+  function peg$f40(head, b) {    return b;  }
+  function peg$f41(head, tail) {    return [head, ...tail];  }
+  function peg$f42(name, value) {    return { name, value };  }
+  function peg$f43(target, other) {    return { kind: 'compare', target, other, span: span() };  }
+  function peg$f44(target, at, tol) {    return { kind: 'verify', target, at: at ?? [], tolerance: tol ?? null, span: span() };  }
+  function peg$f45(t) {    return t;  }
+  function peg$f46(v) {    return { t: 'num', v: String(Number(v)), span: span() };  }
+  function peg$f47(target, param, to) {    return { kind: 'limit', target, param, to, span: span() };  }
+  function peg$f48() {    return '-inf';  }
+  function peg$f49() {    return 'inf';  }
+  function peg$f50(head, op, b) {    return [op, b];  }
+  function peg$f51(head, tail) {    return bin(head, tail);  }
+  function peg$f52(head, op, b) {    return [op, b];  }
+  function peg$f53(head, tail) {    return bin(head, tail);  }
+  function peg$f54(a) {    return { t: 'neg', a, span: span() };  }
+  function peg$f55(a) {    return a;  }
+  function peg$f56(base, e) {    return e;  }
+  function peg$f57(base, exp) {    return exp === null ? base : { t: 'bin', op: '^', a: base, b: exp, span: span() };  }
+  function peg$f58(e) {    return e;  }
+  function peg$f59(fn, args) {    return { t: 'call', fn, args, span: span() };  }
+  function peg$f60(head, e) {    return e;  }
+  function peg$f61(head, tail) {    return [head, ...tail];  }
+  function peg$f62(name) {
     // Euler's number is exp(1) in worksheets, so e is an ordinary name there; the
     // algebra adapter's answers (options.internal) may still use the constant e.
     if (name === 'i' || name === 'pi' || (name === 'e' && options.internal)) return { t: 'const', name, span: span() };
     return { t: 'name', name, span: span() };
   }
-  function peg$f59(v) {    return { t: 'num', v, span: span() };  }
-  function peg$f60(name) {    return { name, span: span() };  }
+  function peg$f63(v) {    return { t: 'num', v, span: span() };  }
+  function peg$f64(name) {    return { name, span: span() };  }
   let peg$currPos = options.peg$currPos | 0;
   let peg$savedPos = peg$currPos;
   const peg$posDetailsCache = [{ line: 1, column: 1 }];
@@ -680,6 +692,12 @@ function peg$parse(input, options) {
                             s0 = peg$parseModeProduct();
                             if (s0 === peg$FAILED) {
                               s0 = peg$parseDeterminant();
+                              if (s0 === peg$FAILED) {
+                                s0 = peg$parseLatticeSum();
+                                if (s0 === peg$FAILED) {
+                                  s0 = peg$parseSliced();
+                                }
+                              }
                             }
                           }
                         }
@@ -818,7 +836,7 @@ function peg$parse(input, options) {
   }
 
   function peg$parseDomain() {
-    let s0, s1, s2, s3;
+    let s0, s1, s2, s3, s4, s5;
 
     peg$silentFails++;
     s0 = peg$currPos;
@@ -829,26 +847,67 @@ function peg$parse(input, options) {
       s1 = peg$FAILED;
       if (peg$silentFails === 0) { peg$fail(peg$e9); }
     }
-    if (s1 === peg$FAILED) {
-      if (input.substr(peg$currPos, 8) === peg$c5) {
-        s1 = peg$c5;
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        if (input.substr(peg$currPos, 7) === peg$c5) {
+          s3 = peg$c5;
+          peg$currPos += 7;
+        } else {
+          s3 = peg$FAILED;
+          if (peg$silentFails === 0) { peg$fail(peg$e10); }
+        }
+        if (s3 !== peg$FAILED) {
+          s4 = peg$currPos;
+          peg$silentFails++;
+          s5 = peg$parseIdChar();
+          peg$silentFails--;
+          if (s5 === peg$FAILED) {
+            s4 = undefined;
+          } else {
+            peg$currPos = s4;
+            s4 = peg$FAILED;
+          }
+          if (s4 !== peg$FAILED) {
+            peg$savedPos = s0;
+            s0 = peg$f4();
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+    if (s0 === peg$FAILED) {
+      s0 = peg$currPos;
+      if (input.substr(peg$currPos, 8) === peg$c4) {
+        s1 = peg$c4;
         peg$currPos += 8;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e10); }
+        if (peg$silentFails === 0) { peg$fail(peg$e9); }
       }
       if (s1 === peg$FAILED) {
-        if (input.substr(peg$currPos, 4) === peg$c6) {
+        if (input.substr(peg$currPos, 8) === peg$c6) {
           s1 = peg$c6;
-          peg$currPos += 4;
+          peg$currPos += 8;
         } else {
           s1 = peg$FAILED;
           if (peg$silentFails === 0) { peg$fail(peg$e11); }
         }
         if (s1 === peg$FAILED) {
-          if (input.substr(peg$currPos, 7) === peg$c7) {
+          if (input.substr(peg$currPos, 4) === peg$c7) {
             s1 = peg$c7;
-            peg$currPos += 7;
+            peg$currPos += 4;
           } else {
             s1 = peg$FAILED;
             if (peg$silentFails === 0) { peg$fail(peg$e12); }
@@ -861,31 +920,40 @@ function peg$parse(input, options) {
               s1 = peg$FAILED;
               if (peg$silentFails === 0) { peg$fail(peg$e13); }
             }
+            if (s1 === peg$FAILED) {
+              if (input.substr(peg$currPos, 7) === peg$c9) {
+                s1 = peg$c9;
+                peg$currPos += 7;
+              } else {
+                s1 = peg$FAILED;
+                if (peg$silentFails === 0) { peg$fail(peg$e14); }
+              }
+            }
           }
         }
       }
-    }
-    if (s1 !== peg$FAILED) {
-      s2 = peg$currPos;
-      peg$silentFails++;
-      s3 = peg$parseIdChar();
-      peg$silentFails--;
-      if (s3 === peg$FAILED) {
-        s2 = undefined;
-      } else {
-        peg$currPos = s2;
-        s2 = peg$FAILED;
-      }
-      if (s2 !== peg$FAILED) {
-        peg$savedPos = s0;
-        s0 = peg$f4(s1);
+      if (s1 !== peg$FAILED) {
+        s2 = peg$currPos;
+        peg$silentFails++;
+        s3 = peg$parseIdChar();
+        peg$silentFails--;
+        if (s3 === peg$FAILED) {
+          s2 = undefined;
+        } else {
+          peg$currPos = s2;
+          s2 = peg$FAILED;
+        }
+        if (s2 !== peg$FAILED) {
+          peg$savedPos = s0;
+          s0 = peg$f5(s1);
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
       }
-    } else {
-      peg$currPos = s0;
-      s0 = peg$FAILED;
     }
     peg$silentFails--;
     if (s0 === peg$FAILED) {
@@ -900,12 +968,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 8) === peg$c9) {
-      s1 = peg$c9;
+    if (input.substr(peg$currPos, 8) === peg$c10) {
+      s1 = peg$c10;
       peg$currPos += 8;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e14); }
+      if (peg$silentFails === 0) { peg$fail(peg$e15); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -914,11 +982,11 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 61) {
-            s5 = peg$c10;
+            s5 = peg$c11;
             peg$currPos++;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
@@ -928,7 +996,7 @@ function peg$parse(input, options) {
               s9 = peg$parseMeasureList();
               if (s9 !== peg$FAILED) {
                 peg$savedPos = s0;
-                s0 = peg$f5(s3, s7, s9);
+                s0 = peg$f6(s3, s7, s9);
               } else {
                 peg$currPos = s0;
                 s0 = peg$FAILED;
@@ -969,7 +1037,7 @@ function peg$parse(input, options) {
       s5 = peg$parseMeasure();
       if (s5 !== peg$FAILED) {
         peg$savedPos = s3;
-        s3 = peg$f6(s1, s5);
+        s3 = peg$f7(s1, s5);
       } else {
         peg$currPos = s3;
         s3 = peg$FAILED;
@@ -981,14 +1049,14 @@ function peg$parse(input, options) {
         s5 = peg$parseMeasure();
         if (s5 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f6(s1, s5);
+          s3 = peg$f7(s1, s5);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f7(s1, s2);
+      s0 = peg$f8(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -1002,20 +1070,20 @@ function peg$parse(input, options) {
 
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 100) {
-      s1 = peg$c11;
+      s1 = peg$c12;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e16); }
+      if (peg$silentFails === 0) { peg$fail(peg$e17); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       if (input.charCodeAt(peg$currPos) === 40) {
-        s3 = peg$c12;
+        s3 = peg$c13;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e17); }
+        if (peg$silentFails === 0) { peg$fail(peg$e18); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$parse_();
@@ -1035,7 +1103,7 @@ function peg$parse(input, options) {
             s10 = peg$parseVariableKind();
             if (s10 !== peg$FAILED) {
               peg$savedPos = s7;
-              s7 = peg$f8(s5, s10);
+              s7 = peg$f9(s5, s10);
             } else {
               peg$currPos = s7;
               s7 = peg$FAILED;
@@ -1049,15 +1117,15 @@ function peg$parse(input, options) {
           }
           s8 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 41) {
-            s9 = peg$c13;
+            s9 = peg$c14;
             peg$currPos++;
           } else {
             s9 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e18); }
+            if (peg$silentFails === 0) { peg$fail(peg$e19); }
           }
           if (s9 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f9(s5, s7);
+            s0 = peg$f10(s5, s7);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -1083,28 +1151,28 @@ function peg$parse(input, options) {
 
     peg$silentFails++;
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 4) === peg$c6) {
-      s1 = peg$c6;
+    if (input.substr(peg$currPos, 4) === peg$c7) {
+      s1 = peg$c7;
       peg$currPos += 4;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e11); }
+      if (peg$silentFails === 0) { peg$fail(peg$e12); }
     }
     if (s1 === peg$FAILED) {
-      if (input.substr(peg$currPos, 7) === peg$c7) {
-        s1 = peg$c7;
+      if (input.substr(peg$currPos, 7) === peg$c8) {
+        s1 = peg$c8;
         peg$currPos += 7;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e12); }
+        if (peg$silentFails === 0) { peg$fail(peg$e13); }
       }
       if (s1 === peg$FAILED) {
-        if (input.substr(peg$currPos, 9) === peg$c14) {
-          s1 = peg$c14;
+        if (input.substr(peg$currPos, 9) === peg$c15) {
+          s1 = peg$c15;
           peg$currPos += 9;
         } else {
           s1 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e20); }
+          if (peg$silentFails === 0) { peg$fail(peg$e21); }
         }
       }
     }
@@ -1121,7 +1189,7 @@ function peg$parse(input, options) {
       }
       if (s2 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f10(s1);
+        s0 = peg$f11(s1);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1133,7 +1201,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e19); }
+      if (peg$silentFails === 0) { peg$fail(peg$e20); }
     }
 
     return s0;
@@ -1143,12 +1211,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c15) {
-      s1 = peg$c15;
+    if (input.substr(peg$currPos, 6) === peg$c16) {
+      s1 = peg$c16;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e21); }
+      if (peg$silentFails === 0) { peg$fail(peg$e22); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1157,11 +1225,11 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 61) {
-            s5 = peg$c10;
+            s5 = peg$c11;
             peg$currPos++;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
@@ -1169,96 +1237,12 @@ function peg$parse(input, options) {
             if (s7 !== peg$FAILED) {
               s8 = peg$parse__();
               if (s8 !== peg$FAILED) {
-                if (input.substr(peg$currPos, 5) === peg$c16) {
-                  s9 = peg$c16;
+                if (input.substr(peg$currPos, 5) === peg$c17) {
+                  s9 = peg$c17;
                   peg$currPos += 5;
                 } else {
                   s9 = peg$FAILED;
-                  if (peg$silentFails === 0) { peg$fail(peg$e22); }
-                }
-                if (s9 !== peg$FAILED) {
-                  s10 = peg$parse__();
-                  if (s10 !== peg$FAILED) {
-                    s11 = peg$parseNameRef();
-                    if (s11 !== peg$FAILED) {
-                      peg$savedPos = s0;
-                      s0 = peg$f11(s3, s7, s11);
-                    } else {
-                      peg$currPos = s0;
-                      s0 = peg$FAILED;
-                    }
-                  } else {
-                    peg$currPos = s0;
-                    s0 = peg$FAILED;
-                  }
-                } else {
-                  peg$currPos = s0;
-                  s0 = peg$FAILED;
-                }
-              } else {
-                peg$currPos = s0;
-                s0 = peg$FAILED;
-              }
-            } else {
-              peg$currPos = s0;
-              s0 = peg$FAILED;
-            }
-          } else {
-            peg$currPos = s0;
-            s0 = peg$FAILED;
-          }
-        } else {
-          peg$currPos = s0;
-          s0 = peg$FAILED;
-        }
-      } else {
-        peg$currPos = s0;
-        s0 = peg$FAILED;
-      }
-    } else {
-      peg$currPos = s0;
-      s0 = peg$FAILED;
-    }
-
-    return s0;
-  }
-
-  function peg$parseDerivative() {
-    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
-
-    s0 = peg$currPos;
-    if (input.substr(peg$currPos, 10) === peg$c17) {
-      s1 = peg$c17;
-      peg$currPos += 10;
-    } else {
-      s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e23); }
-    }
-    if (s1 !== peg$FAILED) {
-      s2 = peg$parse__();
-      if (s2 !== peg$FAILED) {
-        s3 = peg$parseNameRef();
-        if (s3 !== peg$FAILED) {
-          s4 = peg$parse_();
-          if (input.charCodeAt(peg$currPos) === 61) {
-            s5 = peg$c10;
-            peg$currPos++;
-          } else {
-            s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e15); }
-          }
-          if (s5 !== peg$FAILED) {
-            s6 = peg$parse_();
-            s7 = peg$parseSum();
-            if (s7 !== peg$FAILED) {
-              s8 = peg$parse__();
-              if (s8 !== peg$FAILED) {
-                if (input.substr(peg$currPos, 2) === peg$c18) {
-                  s9 = peg$c18;
-                  peg$currPos += 2;
-                } else {
-                  s9 = peg$FAILED;
-                  if (peg$silentFails === 0) { peg$fail(peg$e24); }
+                  if (peg$silentFails === 0) { peg$fail(peg$e23); }
                 }
                 if (s9 !== peg$FAILED) {
                   s10 = peg$parse__();
@@ -1307,16 +1291,16 @@ function peg$parse(input, options) {
     return s0;
   }
 
-  function peg$parseModeProduct() {
+  function peg$parseDerivative() {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 7) === peg$c19) {
-      s1 = peg$c19;
-      peg$currPos += 7;
+    if (input.substr(peg$currPos, 10) === peg$c18) {
+      s1 = peg$c18;
+      peg$currPos += 10;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e25); }
+      if (peg$silentFails === 0) { peg$fail(peg$e24); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1325,11 +1309,11 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 61) {
-            s5 = peg$c10;
+            s5 = peg$c11;
             peg$currPos++;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
@@ -1337,12 +1321,96 @@ function peg$parse(input, options) {
             if (s7 !== peg$FAILED) {
               s8 = peg$parse__();
               if (s8 !== peg$FAILED) {
-                if (input.substr(peg$currPos, 4) === peg$c20) {
-                  s9 = peg$c20;
+                if (input.substr(peg$currPos, 2) === peg$c19) {
+                  s9 = peg$c19;
+                  peg$currPos += 2;
+                } else {
+                  s9 = peg$FAILED;
+                  if (peg$silentFails === 0) { peg$fail(peg$e25); }
+                }
+                if (s9 !== peg$FAILED) {
+                  s10 = peg$parse__();
+                  if (s10 !== peg$FAILED) {
+                    s11 = peg$parseNameRef();
+                    if (s11 !== peg$FAILED) {
+                      peg$savedPos = s0;
+                      s0 = peg$f13(s3, s7, s11);
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+
+    return s0;
+  }
+
+  function peg$parseModeProduct() {
+    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
+
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 7) === peg$c20) {
+      s1 = peg$c20;
+      peg$currPos += 7;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e26); }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        s3 = peg$parseNameRef();
+        if (s3 !== peg$FAILED) {
+          s4 = peg$parse_();
+          if (input.charCodeAt(peg$currPos) === 61) {
+            s5 = peg$c11;
+            peg$currPos++;
+          } else {
+            s5 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
+          }
+          if (s5 !== peg$FAILED) {
+            s6 = peg$parse_();
+            s7 = peg$parseSum();
+            if (s7 !== peg$FAILED) {
+              s8 = peg$parse__();
+              if (s8 !== peg$FAILED) {
+                if (input.substr(peg$currPos, 4) === peg$c21) {
+                  s9 = peg$c21;
                   peg$currPos += 4;
                 } else {
                   s9 = peg$FAILED;
-                  if (peg$silentFails === 0) { peg$fail(peg$e26); }
+                  if (peg$silentFails === 0) { peg$fail(peg$e27); }
                 }
                 if (s9 !== peg$FAILED) {
                   s10 = peg$parse__();
@@ -1350,7 +1418,7 @@ function peg$parse(input, options) {
                     s11 = peg$parseModeRange();
                     if (s11 !== peg$FAILED) {
                       peg$savedPos = s0;
-                      s0 = peg$f13(s3, s7, s11);
+                      s0 = peg$f14(s3, s7, s11);
                     } else {
                       peg$currPos = s0;
                       s0 = peg$FAILED;
@@ -1396,12 +1464,12 @@ function peg$parse(input, options) {
 
     peg$silentFails++;
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 3) === peg$c21) {
-      s1 = peg$c21;
+    if (input.substr(peg$currPos, 3) === peg$c22) {
+      s1 = peg$c22;
       peg$currPos += 3;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e28); }
+      if (peg$silentFails === 0) { peg$fail(peg$e29); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1409,7 +1477,7 @@ function peg$parse(input, options) {
         s3 = peg$parseNameRef();
         if (s3 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f14(s3);
+          s0 = peg$f15(s3);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -1427,12 +1495,12 @@ function peg$parse(input, options) {
       s1 = peg$parseNameRef();
       if (s1 !== peg$FAILED) {
         s2 = peg$parse_();
-        if (input.substr(peg$currPos, 2) === peg$c22) {
-          s3 = peg$c22;
+        if (input.substr(peg$currPos, 2) === peg$c23) {
+          s3 = peg$c23;
           peg$currPos += 2;
         } else {
           s3 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e29); }
+          if (peg$silentFails === 0) { peg$fail(peg$e30); }
         }
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
@@ -1441,7 +1509,7 @@ function peg$parse(input, options) {
             peg$currPos++;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e30); }
+            if (peg$silentFails === 0) { peg$fail(peg$e31); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$currPos;
@@ -1456,7 +1524,7 @@ function peg$parse(input, options) {
             }
             if (s6 !== peg$FAILED) {
               peg$savedPos = s0;
-              s0 = peg$f15(s1, s5);
+              s0 = peg$f16(s1, s5);
             } else {
               peg$currPos = s0;
               s0 = peg$FAILED;
@@ -1477,7 +1545,109 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e27); }
+      if (peg$silentFails === 0) { peg$fail(peg$e28); }
+    }
+
+    return s0;
+  }
+
+  function peg$parseLatticeSum() {
+    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11, s12, s13;
+
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 3) === peg$c24) {
+      s1 = peg$c24;
+      peg$currPos += 3;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e32); }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        s3 = peg$parseNameRef();
+        if (s3 !== peg$FAILED) {
+          s4 = peg$parse_();
+          if (input.charCodeAt(peg$currPos) === 61) {
+            s5 = peg$c11;
+            peg$currPos++;
+          } else {
+            s5 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
+          }
+          if (s5 !== peg$FAILED) {
+            s6 = peg$parse_();
+            s7 = peg$parseSum();
+            if (s7 !== peg$FAILED) {
+              s8 = peg$parse__();
+              if (s8 !== peg$FAILED) {
+                if (input.substr(peg$currPos, 4) === peg$c21) {
+                  s9 = peg$c21;
+                  peg$currPos += 4;
+                } else {
+                  s9 = peg$FAILED;
+                  if (peg$silentFails === 0) { peg$fail(peg$e27); }
+                }
+                if (s9 !== peg$FAILED) {
+                  s10 = peg$parse__();
+                  if (s10 !== peg$FAILED) {
+                    if (input.substr(peg$currPos, 3) === peg$c22) {
+                      s11 = peg$c22;
+                      peg$currPos += 3;
+                    } else {
+                      s11 = peg$FAILED;
+                      if (peg$silentFails === 0) { peg$fail(peg$e29); }
+                    }
+                    if (s11 !== peg$FAILED) {
+                      s12 = peg$parse__();
+                      if (s12 !== peg$FAILED) {
+                        s13 = peg$parseNameRef();
+                        if (s13 !== peg$FAILED) {
+                          peg$savedPos = s0;
+                          s0 = peg$f17(s3, s7, s13);
+                        } else {
+                          peg$currPos = s0;
+                          s0 = peg$FAILED;
+                        }
+                      } else {
+                        peg$currPos = s0;
+                        s0 = peg$FAILED;
+                      }
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
     }
 
     return s0;
@@ -1487,12 +1657,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11, s12, s13, s14, s15, s16, s17;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 11) === peg$c23) {
-      s1 = peg$c23;
+    if (input.substr(peg$currPos, 11) === peg$c25) {
+      s1 = peg$c25;
       peg$currPos += 11;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e31); }
+      if (peg$silentFails === 0) { peg$fail(peg$e33); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1501,11 +1671,11 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 61) {
-            s5 = peg$c10;
+            s5 = peg$c11;
             peg$currPos++;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
@@ -1513,22 +1683,22 @@ function peg$parse(input, options) {
             if (s7 !== peg$FAILED) {
               s8 = peg$parse__();
               if (s8 !== peg$FAILED) {
-                if (input.substr(peg$currPos, 2) === peg$c24) {
-                  s9 = peg$c24;
+                if (input.substr(peg$currPos, 2) === peg$c26) {
+                  s9 = peg$c26;
                   peg$currPos += 2;
                 } else {
                   s9 = peg$FAILED;
-                  if (peg$silentFails === 0) { peg$fail(peg$e32); }
+                  if (peg$silentFails === 0) { peg$fail(peg$e34); }
                 }
                 if (s9 !== peg$FAILED) {
                   s10 = peg$parse__();
                   if (s10 !== peg$FAILED) {
-                    if (input.substr(peg$currPos, 8) === peg$c25) {
-                      s11 = peg$c25;
+                    if (input.substr(peg$currPos, 8) === peg$c27) {
+                      s11 = peg$c27;
                       peg$currPos += 8;
                     } else {
                       s11 = peg$FAILED;
-                      if (peg$silentFails === 0) { peg$fail(peg$e33); }
+                      if (peg$silentFails === 0) { peg$fail(peg$e35); }
                     }
                     if (s11 !== peg$FAILED) {
                       s12 = peg$parse__();
@@ -1536,7 +1706,7 @@ function peg$parse(input, options) {
                         s13 = peg$parseSum();
                         if (s13 !== peg$FAILED) {
                           peg$savedPos = s0;
-                          s0 = peg$f16(s3, s7, s13);
+                          s0 = peg$f18(s3, s7, s13);
                         } else {
                           peg$currPos = s0;
                           s0 = peg$FAILED;
@@ -1583,12 +1753,12 @@ function peg$parse(input, options) {
     }
     if (s0 === peg$FAILED) {
       s0 = peg$currPos;
-      if (input.substr(peg$currPos, 11) === peg$c23) {
-        s1 = peg$c23;
+      if (input.substr(peg$currPos, 11) === peg$c25) {
+        s1 = peg$c25;
         peg$currPos += 11;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e31); }
+        if (peg$silentFails === 0) { peg$fail(peg$e33); }
       }
       if (s1 !== peg$FAILED) {
         s2 = peg$parse__();
@@ -1597,11 +1767,11 @@ function peg$parse(input, options) {
           if (s3 !== peg$FAILED) {
             s4 = peg$parse_();
             if (input.charCodeAt(peg$currPos) === 61) {
-              s5 = peg$c10;
+              s5 = peg$c11;
               peg$currPos++;
             } else {
               s5 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e15); }
+              if (peg$silentFails === 0) { peg$fail(peg$e16); }
             }
             if (s5 !== peg$FAILED) {
               s6 = peg$parse_();
@@ -1609,22 +1779,22 @@ function peg$parse(input, options) {
               if (s7 !== peg$FAILED) {
                 s8 = peg$parse__();
                 if (s8 !== peg$FAILED) {
-                  if (input.substr(peg$currPos, 2) === peg$c24) {
-                    s9 = peg$c24;
+                  if (input.substr(peg$currPos, 2) === peg$c26) {
+                    s9 = peg$c26;
                     peg$currPos += 2;
                   } else {
                     s9 = peg$FAILED;
-                    if (peg$silentFails === 0) { peg$fail(peg$e32); }
+                    if (peg$silentFails === 0) { peg$fail(peg$e34); }
                   }
                   if (s9 !== peg$FAILED) {
                     s10 = peg$parse__();
                     if (s10 !== peg$FAILED) {
-                      if (input.substr(peg$currPos, 6) === peg$c26) {
-                        s11 = peg$c26;
+                      if (input.substr(peg$currPos, 6) === peg$c28) {
+                        s11 = peg$c28;
                         peg$currPos += 6;
                       } else {
                         s11 = peg$FAILED;
-                        if (peg$silentFails === 0) { peg$fail(peg$e34); }
+                        if (peg$silentFails === 0) { peg$fail(peg$e36); }
                       }
                       if (s11 !== peg$FAILED) {
                         s12 = peg$parse__();
@@ -1633,20 +1803,20 @@ function peg$parse(input, options) {
                           if (s13 !== peg$FAILED) {
                             s14 = peg$parse__();
                             if (s14 !== peg$FAILED) {
-                              if (input.substr(peg$currPos, 8) === peg$c27) {
-                                s15 = peg$c27;
+                              if (input.substr(peg$currPos, 8) === peg$c29) {
+                                s15 = peg$c29;
                                 peg$currPos += 8;
                               } else {
                                 s15 = peg$FAILED;
-                                if (peg$silentFails === 0) { peg$fail(peg$e35); }
+                                if (peg$silentFails === 0) { peg$fail(peg$e37); }
                               }
                               if (s15 === peg$FAILED) {
-                                if (input.substr(peg$currPos, 12) === peg$c28) {
-                                  s15 = peg$c28;
+                                if (input.substr(peg$currPos, 12) === peg$c30) {
+                                  s15 = peg$c30;
                                   peg$currPos += 12;
                                 } else {
                                   s15 = peg$FAILED;
-                                  if (peg$silentFails === 0) { peg$fail(peg$e36); }
+                                  if (peg$silentFails === 0) { peg$fail(peg$e38); }
                                 }
                               }
                               if (s15 !== peg$FAILED) {
@@ -1662,7 +1832,359 @@ function peg$parse(input, options) {
                                 }
                                 if (s16 !== peg$FAILED) {
                                   peg$savedPos = s0;
-                                  s0 = peg$f17(s3, s7, s13, s15);
+                                  s0 = peg$f19(s3, s7, s13, s15);
+                                } else {
+                                  peg$currPos = s0;
+                                  s0 = peg$FAILED;
+                                }
+                              } else {
+                                peg$currPos = s0;
+                                s0 = peg$FAILED;
+                              }
+                            } else {
+                              peg$currPos = s0;
+                              s0 = peg$FAILED;
+                            }
+                          } else {
+                            peg$currPos = s0;
+                            s0 = peg$FAILED;
+                          }
+                        } else {
+                          peg$currPos = s0;
+                          s0 = peg$FAILED;
+                        }
+                      } else {
+                        peg$currPos = s0;
+                        s0 = peg$FAILED;
+                      }
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    }
+
+    return s0;
+  }
+
+  function peg$parseSliced() {
+    let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11, s12, s13, s14, s15, s16, s17, s18, s19, s20, s21, s22, s23;
+
+    s0 = peg$currPos;
+    if (input.substr(peg$currPos, 6) === peg$c31) {
+      s1 = peg$c31;
+      peg$currPos += 6;
+    } else {
+      s1 = peg$FAILED;
+      if (peg$silentFails === 0) { peg$fail(peg$e39); }
+    }
+    if (s1 !== peg$FAILED) {
+      s2 = peg$parse__();
+      if (s2 !== peg$FAILED) {
+        s3 = peg$parseNameRef();
+        if (s3 !== peg$FAILED) {
+          s4 = peg$parse_();
+          if (input.charCodeAt(peg$currPos) === 61) {
+            s5 = peg$c11;
+            peg$currPos++;
+          } else {
+            s5 = peg$FAILED;
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
+          }
+          if (s5 !== peg$FAILED) {
+            s6 = peg$parse_();
+            s7 = peg$parseSum();
+            if (s7 !== peg$FAILED) {
+              s8 = peg$parse__();
+              if (s8 !== peg$FAILED) {
+                if (input.substr(peg$currPos, 2) === peg$c26) {
+                  s9 = peg$c26;
+                  peg$currPos += 2;
+                } else {
+                  s9 = peg$FAILED;
+                  if (peg$silentFails === 0) { peg$fail(peg$e34); }
+                }
+                if (s9 !== peg$FAILED) {
+                  s10 = peg$parse__();
+                  if (s10 !== peg$FAILED) {
+                    if (input.substr(peg$currPos, 8) === peg$c27) {
+                      s11 = peg$c27;
+                      peg$currPos += 8;
+                    } else {
+                      s11 = peg$FAILED;
+                      if (peg$silentFails === 0) { peg$fail(peg$e35); }
+                    }
+                    if (s11 !== peg$FAILED) {
+                      s12 = peg$parse__();
+                      if (s12 !== peg$FAILED) {
+                        s13 = peg$parseSum();
+                        if (s13 !== peg$FAILED) {
+                          s14 = peg$parse__();
+                          if (s14 !== peg$FAILED) {
+                            if (input.substr(peg$currPos, 4) === peg$c32) {
+                              s15 = peg$c32;
+                              peg$currPos += 4;
+                            } else {
+                              s15 = peg$FAILED;
+                              if (peg$silentFails === 0) { peg$fail(peg$e40); }
+                            }
+                            if (s15 !== peg$FAILED) {
+                              s16 = peg$parse__();
+                              if (s16 !== peg$FAILED) {
+                                s17 = peg$parseSum();
+                                if (s17 !== peg$FAILED) {
+                                  s18 = peg$parse__();
+                                  if (s18 !== peg$FAILED) {
+                                    if (input.substr(peg$currPos, 6) === peg$c33) {
+                                      s19 = peg$c33;
+                                      peg$currPos += 6;
+                                    } else {
+                                      s19 = peg$FAILED;
+                                      if (peg$silentFails === 0) { peg$fail(peg$e41); }
+                                    }
+                                    if (s19 !== peg$FAILED) {
+                                      s20 = peg$currPos;
+                                      peg$silentFails++;
+                                      s21 = peg$parseIdChar();
+                                      peg$silentFails--;
+                                      if (s21 === peg$FAILED) {
+                                        s20 = undefined;
+                                      } else {
+                                        peg$currPos = s20;
+                                        s20 = peg$FAILED;
+                                      }
+                                      if (s20 !== peg$FAILED) {
+                                        peg$savedPos = s0;
+                                        s0 = peg$f20(s3, s7, s13, s17);
+                                      } else {
+                                        peg$currPos = s0;
+                                        s0 = peg$FAILED;
+                                      }
+                                    } else {
+                                      peg$currPos = s0;
+                                      s0 = peg$FAILED;
+                                    }
+                                  } else {
+                                    peg$currPos = s0;
+                                    s0 = peg$FAILED;
+                                  }
+                                } else {
+                                  peg$currPos = s0;
+                                  s0 = peg$FAILED;
+                                }
+                              } else {
+                                peg$currPos = s0;
+                                s0 = peg$FAILED;
+                              }
+                            } else {
+                              peg$currPos = s0;
+                              s0 = peg$FAILED;
+                            }
+                          } else {
+                            peg$currPos = s0;
+                            s0 = peg$FAILED;
+                          }
+                        } else {
+                          peg$currPos = s0;
+                          s0 = peg$FAILED;
+                        }
+                      } else {
+                        peg$currPos = s0;
+                        s0 = peg$FAILED;
+                      }
+                    } else {
+                      peg$currPos = s0;
+                      s0 = peg$FAILED;
+                    }
+                  } else {
+                    peg$currPos = s0;
+                    s0 = peg$FAILED;
+                  }
+                } else {
+                  peg$currPos = s0;
+                  s0 = peg$FAILED;
+                }
+              } else {
+                peg$currPos = s0;
+                s0 = peg$FAILED;
+              }
+            } else {
+              peg$currPos = s0;
+              s0 = peg$FAILED;
+            }
+          } else {
+            peg$currPos = s0;
+            s0 = peg$FAILED;
+          }
+        } else {
+          peg$currPos = s0;
+          s0 = peg$FAILED;
+        }
+      } else {
+        peg$currPos = s0;
+        s0 = peg$FAILED;
+      }
+    } else {
+      peg$currPos = s0;
+      s0 = peg$FAILED;
+    }
+    if (s0 === peg$FAILED) {
+      s0 = peg$currPos;
+      if (input.substr(peg$currPos, 6) === peg$c31) {
+        s1 = peg$c31;
+        peg$currPos += 6;
+      } else {
+        s1 = peg$FAILED;
+        if (peg$silentFails === 0) { peg$fail(peg$e39); }
+      }
+      if (s1 !== peg$FAILED) {
+        s2 = peg$parse__();
+        if (s2 !== peg$FAILED) {
+          s3 = peg$parseNameRef();
+          if (s3 !== peg$FAILED) {
+            s4 = peg$parse_();
+            if (input.charCodeAt(peg$currPos) === 61) {
+              s5 = peg$c11;
+              peg$currPos++;
+            } else {
+              s5 = peg$FAILED;
+              if (peg$silentFails === 0) { peg$fail(peg$e16); }
+            }
+            if (s5 !== peg$FAILED) {
+              s6 = peg$parse_();
+              s7 = peg$parseSum();
+              if (s7 !== peg$FAILED) {
+                s8 = peg$parse__();
+                if (s8 !== peg$FAILED) {
+                  if (input.substr(peg$currPos, 2) === peg$c26) {
+                    s9 = peg$c26;
+                    peg$currPos += 2;
+                  } else {
+                    s9 = peg$FAILED;
+                    if (peg$silentFails === 0) { peg$fail(peg$e34); }
+                  }
+                  if (s9 !== peg$FAILED) {
+                    s10 = peg$parse__();
+                    if (s10 !== peg$FAILED) {
+                      if (input.substr(peg$currPos, 6) === peg$c28) {
+                        s11 = peg$c28;
+                        peg$currPos += 6;
+                      } else {
+                        s11 = peg$FAILED;
+                        if (peg$silentFails === 0) { peg$fail(peg$e36); }
+                      }
+                      if (s11 !== peg$FAILED) {
+                        s12 = peg$parse__();
+                        if (s12 !== peg$FAILED) {
+                          s13 = peg$parseSum();
+                          if (s13 !== peg$FAILED) {
+                            s14 = peg$parse__();
+                            if (s14 !== peg$FAILED) {
+                              if (input.substr(peg$currPos, 8) === peg$c29) {
+                                s15 = peg$c29;
+                                peg$currPos += 8;
+                              } else {
+                                s15 = peg$FAILED;
+                                if (peg$silentFails === 0) { peg$fail(peg$e37); }
+                              }
+                              if (s15 === peg$FAILED) {
+                                if (input.substr(peg$currPos, 12) === peg$c30) {
+                                  s15 = peg$c30;
+                                  peg$currPos += 12;
+                                } else {
+                                  s15 = peg$FAILED;
+                                  if (peg$silentFails === 0) { peg$fail(peg$e38); }
+                                }
+                              }
+                              if (s15 !== peg$FAILED) {
+                                s16 = peg$parse__();
+                                if (s16 !== peg$FAILED) {
+                                  if (input.substr(peg$currPos, 4) === peg$c32) {
+                                    s17 = peg$c32;
+                                    peg$currPos += 4;
+                                  } else {
+                                    s17 = peg$FAILED;
+                                    if (peg$silentFails === 0) { peg$fail(peg$e40); }
+                                  }
+                                  if (s17 !== peg$FAILED) {
+                                    s18 = peg$parse__();
+                                    if (s18 !== peg$FAILED) {
+                                      s19 = peg$parseSum();
+                                      if (s19 !== peg$FAILED) {
+                                        s20 = peg$parse__();
+                                        if (s20 !== peg$FAILED) {
+                                          if (input.substr(peg$currPos, 6) === peg$c33) {
+                                            s21 = peg$c33;
+                                            peg$currPos += 6;
+                                          } else {
+                                            s21 = peg$FAILED;
+                                            if (peg$silentFails === 0) { peg$fail(peg$e41); }
+                                          }
+                                          if (s21 !== peg$FAILED) {
+                                            s22 = peg$currPos;
+                                            peg$silentFails++;
+                                            s23 = peg$parseIdChar();
+                                            peg$silentFails--;
+                                            if (s23 === peg$FAILED) {
+                                              s22 = undefined;
+                                            } else {
+                                              peg$currPos = s22;
+                                              s22 = peg$FAILED;
+                                            }
+                                            if (s22 !== peg$FAILED) {
+                                              peg$savedPos = s0;
+                                              s0 = peg$f21(s3, s7, s13, s15, s19);
+                                            } else {
+                                              peg$currPos = s0;
+                                              s0 = peg$FAILED;
+                                            }
+                                          } else {
+                                            peg$currPos = s0;
+                                            s0 = peg$FAILED;
+                                          }
+                                        } else {
+                                          peg$currPos = s0;
+                                          s0 = peg$FAILED;
+                                        }
+                                      } else {
+                                        peg$currPos = s0;
+                                        s0 = peg$FAILED;
+                                      }
+                                    } else {
+                                      peg$currPos = s0;
+                                      s0 = peg$FAILED;
+                                    }
+                                  } else {
+                                    peg$currPos = s0;
+                                    s0 = peg$FAILED;
+                                  }
                                 } else {
                                   peg$currPos = s0;
                                   s0 = peg$FAILED;
@@ -1728,12 +2250,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c29) {
-      s1 = peg$c29;
+    if (input.substr(peg$currPos, 6) === peg$c34) {
+      s1 = peg$c34;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e37); }
+      if (peg$silentFails === 0) { peg$fail(peg$e42); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1742,18 +2264,18 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 61) {
-            s5 = peg$c10;
+            s5 = peg$c11;
             peg$currPos++;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
             s7 = peg$parseSum();
             if (s7 !== peg$FAILED) {
               peg$savedPos = s0;
-              s0 = peg$f18(s3, s7);
+              s0 = peg$f22(s3, s7);
             } else {
               peg$currPos = s0;
               s0 = peg$FAILED;
@@ -1782,12 +2304,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 3) === peg$c30) {
-      s1 = peg$c30;
+    if (input.substr(peg$currPos, 3) === peg$c35) {
+      s1 = peg$c35;
       peg$currPos += 3;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e38); }
+      if (peg$silentFails === 0) { peg$fail(peg$e43); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1796,18 +2318,18 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 61) {
-            s5 = peg$c10;
+            s5 = peg$c11;
             peg$currPos++;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e15); }
+            if (peg$silentFails === 0) { peg$fail(peg$e16); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
             s7 = peg$parseSum();
             if (s7 !== peg$FAILED) {
               peg$savedPos = s0;
-              s0 = peg$f19(s3, s7);
+              s0 = peg$f23(s3, s7);
             } else {
               peg$currPos = s0;
               s0 = peg$FAILED;
@@ -1836,19 +2358,19 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 4) === peg$c31) {
-      s1 = peg$c31;
+    if (input.substr(peg$currPos, 4) === peg$c36) {
+      s1 = peg$c36;
       peg$currPos += 4;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e39); }
+      if (peg$silentFails === 0) { peg$fail(peg$e44); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       s3 = peg$parseStringLit();
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f20(s3);
+        s0 = peg$f24(s3);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1867,11 +2389,11 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 34) {
-      s1 = peg$c32;
+      s1 = peg$c37;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e41); }
+      if (peg$silentFails === 0) { peg$fail(peg$e46); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$currPos;
@@ -1881,7 +2403,7 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s4 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e42); }
+        if (peg$silentFails === 0) { peg$fail(peg$e47); }
       }
       while (s4 !== peg$FAILED) {
         s3.push(s4);
@@ -1890,20 +2412,20 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e42); }
+          if (peg$silentFails === 0) { peg$fail(peg$e47); }
         }
       }
       s2 = input.substring(s2, peg$currPos);
       if (input.charCodeAt(peg$currPos) === 34) {
-        s3 = peg$c32;
+        s3 = peg$c37;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e41); }
+        if (peg$silentFails === 0) { peg$fail(peg$e46); }
       }
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f21(s2);
+        s0 = peg$f25(s2);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -1915,7 +2437,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e40); }
+      if (peg$silentFails === 0) { peg$fail(peg$e45); }
     }
 
     return s0;
@@ -1925,12 +2447,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c33) {
-      s1 = peg$c33;
+    if (input.substr(peg$currPos, 6) === peg$c38) {
+      s1 = peg$c38;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e43); }
+      if (peg$silentFails === 0) { peg$fail(peg$e48); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -1950,12 +2472,12 @@ function peg$parse(input, options) {
             s7 = peg$parseMoveList();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 2) === peg$c34) {
-                s9 = peg$c34;
+              if (input.substr(peg$currPos, 2) === peg$c39) {
+                s9 = peg$c39;
                 peg$currPos += 2;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e44); }
+                if (peg$silentFails === 0) { peg$fail(peg$e49); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse__();
@@ -1963,7 +2485,7 @@ function peg$parse(input, options) {
                   s11 = peg$parseNameRef();
                   if (s11 !== peg$FAILED) {
                     peg$savedPos = s0;
-                    s0 = peg$f22(s3, s7, s11);
+                    s0 = peg$f26(s3, s7, s11);
                   } else {
                     peg$currPos = s0;
                     s0 = peg$FAILED;
@@ -2021,7 +2543,7 @@ function peg$parse(input, options) {
         s7 = peg$parseMove();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f23(s1, s7);
+          s3 = peg$f27(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2046,7 +2568,7 @@ function peg$parse(input, options) {
           s7 = peg$parseMove();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f23(s1, s7);
+            s3 = peg$f27(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -2057,7 +2579,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f24(s1, s2);
+      s0 = peg$f28(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2074,21 +2596,21 @@ function peg$parse(input, options) {
     s1 = peg$parseNameRef();
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
-      if (input.substr(peg$currPos, 2) === peg$c35) {
-        s3 = peg$c35;
+      if (input.substr(peg$currPos, 2) === peg$c40) {
+        s3 = peg$c40;
         peg$currPos += 2;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e46); }
+        if (peg$silentFails === 0) { peg$fail(peg$e51); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$parse_();
-        if (input.substr(peg$currPos, 8) === peg$c36) {
-          s5 = peg$c36;
+        if (input.substr(peg$currPos, 8) === peg$c41) {
+          s5 = peg$c41;
           peg$currPos += 8;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e47); }
+          if (peg$silentFails === 0) { peg$fail(peg$e52); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$currPos;
@@ -2103,7 +2625,7 @@ function peg$parse(input, options) {
           }
           if (s6 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f25(s1);
+            s0 = peg$f29(s1);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -2125,19 +2647,19 @@ function peg$parse(input, options) {
       s1 = peg$parseNameRef();
       if (s1 !== peg$FAILED) {
         s2 = peg$parse_();
-        if (input.substr(peg$currPos, 2) === peg$c35) {
-          s3 = peg$c35;
+        if (input.substr(peg$currPos, 2) === peg$c40) {
+          s3 = peg$c40;
           peg$currPos += 2;
         } else {
           s3 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e46); }
+          if (peg$silentFails === 0) { peg$fail(peg$e51); }
         }
         if (s3 !== peg$FAILED) {
           s4 = peg$parse_();
           s5 = peg$parseSum();
           if (s5 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f26(s1, s5);
+            s0 = peg$f30(s1, s5);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -2154,7 +2676,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e45); }
+      if (peg$silentFails === 0) { peg$fail(peg$e50); }
     }
 
     return s0;
@@ -2164,12 +2686,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11, s12;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 8) === peg$c37) {
-      s1 = peg$c37;
+    if (input.substr(peg$currPos, 8) === peg$c42) {
+      s1 = peg$c42;
       peg$currPos += 8;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e48); }
+      if (peg$silentFails === 0) { peg$fail(peg$e53); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -2189,12 +2711,12 @@ function peg$parse(input, options) {
             s7 = peg$parseParamTuple();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 5) === peg$c38) {
-                s9 = peg$c38;
+              if (input.substr(peg$currPos, 5) === peg$c43) {
+                s9 = peg$c43;
                 peg$currPos += 5;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e49); }
+                if (peg$silentFails === 0) { peg$fail(peg$e54); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse__();
@@ -2206,7 +2728,7 @@ function peg$parse(input, options) {
                       s12 = null;
                     }
                     peg$savedPos = s0;
-                    s0 = peg$f27(s3, s7, s11, s12);
+                    s0 = peg$f31(s3, s7, s11, s12);
                   } else {
                     peg$currPos = s0;
                     s0 = peg$FAILED;
@@ -2249,11 +2771,11 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 40) {
-      s1 = peg$c12;
+      s1 = peg$c13;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e17); }
+      if (peg$silentFails === 0) { peg$fail(peg$e18); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
@@ -2261,15 +2783,15 @@ function peg$parse(input, options) {
       if (s3 !== peg$FAILED) {
         s4 = peg$parse_();
         if (input.charCodeAt(peg$currPos) === 41) {
-          s5 = peg$c13;
+          s5 = peg$c14;
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e18); }
+          if (peg$silentFails === 0) { peg$fail(peg$e19); }
         }
         if (s5 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f28(s3);
+          s0 = peg$f32(s3);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2287,14 +2809,14 @@ function peg$parse(input, options) {
       s1 = peg$parseNameRef();
       if (s1 !== peg$FAILED) {
         peg$savedPos = s0;
-        s1 = peg$f29(s1);
+        s1 = peg$f33(s1);
       }
       s0 = s1;
     }
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e50); }
+      if (peg$silentFails === 0) { peg$fail(peg$e55); }
     }
 
     return s0;
@@ -2309,19 +2831,19 @@ function peg$parse(input, options) {
       s2 = [];
       s3 = peg$currPos;
       s4 = peg$parse_();
-      if (input.substr(peg$currPos, 2) === peg$c35) {
-        s5 = peg$c35;
+      if (input.substr(peg$currPos, 2) === peg$c40) {
+        s5 = peg$c40;
         peg$currPos += 2;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e46); }
+        if (peg$silentFails === 0) { peg$fail(peg$e51); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parsePathPoint();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f30(s1, s7);
+          s3 = peg$f34(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2335,19 +2857,19 @@ function peg$parse(input, options) {
           s2.push(s3);
           s3 = peg$currPos;
           s4 = peg$parse_();
-          if (input.substr(peg$currPos, 2) === peg$c35) {
-            s5 = peg$c35;
+          if (input.substr(peg$currPos, 2) === peg$c40) {
+            s5 = peg$c40;
             peg$currPos += 2;
           } else {
             s5 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e46); }
+            if (peg$silentFails === 0) { peg$fail(peg$e51); }
           }
           if (s5 !== peg$FAILED) {
             s6 = peg$parse_();
             s7 = peg$parsePathPoint();
             if (s7 !== peg$FAILED) {
               peg$savedPos = s3;
-              s3 = peg$f30(s1, s7);
+              s3 = peg$f34(s1, s7);
             } else {
               peg$currPos = s3;
               s3 = peg$FAILED;
@@ -2362,7 +2884,7 @@ function peg$parse(input, options) {
       }
       if (s2 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f31(s1, s2);
+        s0 = peg$f35(s1, s2);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -2381,11 +2903,11 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 40) {
-      s1 = peg$c12;
+      s1 = peg$c13;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e17); }
+      if (peg$silentFails === 0) { peg$fail(peg$e18); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
@@ -2406,7 +2928,7 @@ function peg$parse(input, options) {
           s9 = peg$parseSum();
           if (s9 !== peg$FAILED) {
             peg$savedPos = s5;
-            s5 = peg$f32(s3, s9);
+            s5 = peg$f36(s3, s9);
           } else {
             peg$currPos = s5;
             s5 = peg$FAILED;
@@ -2432,7 +2954,7 @@ function peg$parse(input, options) {
               s9 = peg$parseSum();
               if (s9 !== peg$FAILED) {
                 peg$savedPos = s5;
-                s5 = peg$f32(s3, s9);
+                s5 = peg$f36(s3, s9);
               } else {
                 peg$currPos = s5;
                 s5 = peg$FAILED;
@@ -2448,15 +2970,15 @@ function peg$parse(input, options) {
         if (s4 !== peg$FAILED) {
           s5 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 41) {
-            s6 = peg$c13;
+            s6 = peg$c14;
             peg$currPos++;
           } else {
             s6 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e18); }
+            if (peg$silentFails === 0) { peg$fail(peg$e19); }
           }
           if (s6 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f33(s3, s4);
+            s0 = peg$f37(s3, s4);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -2478,14 +3000,14 @@ function peg$parse(input, options) {
       s1 = peg$parseSum();
       if (s1 !== peg$FAILED) {
         peg$savedPos = s0;
-        s1 = peg$f34(s1);
+        s1 = peg$f38(s1);
       }
       s0 = s1;
     }
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e51); }
+      if (peg$silentFails === 0) { peg$fail(peg$e56); }
     }
 
     return s0;
@@ -2497,12 +3019,12 @@ function peg$parse(input, options) {
     s0 = peg$currPos;
     s1 = peg$parse__();
     if (s1 !== peg$FAILED) {
-      if (input.substr(peg$currPos, 2) === peg$c39) {
-        s2 = peg$c39;
+      if (input.substr(peg$currPos, 2) === peg$c44) {
+        s2 = peg$c44;
         peg$currPos += 2;
       } else {
         s2 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e52); }
+        if (peg$silentFails === 0) { peg$fail(peg$e57); }
       }
       if (s2 !== peg$FAILED) {
         s3 = peg$parse__();
@@ -2510,7 +3032,7 @@ function peg$parse(input, options) {
           s4 = peg$parseBindingList();
           if (s4 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f35(s4);
+            s0 = peg$f39(s4);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -2552,7 +3074,7 @@ function peg$parse(input, options) {
         s7 = peg$parseBinding();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f36(s1, s7);
+          s3 = peg$f40(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -2577,7 +3099,7 @@ function peg$parse(input, options) {
           s7 = peg$parseBinding();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f36(s1, s7);
+            s3 = peg$f40(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -2588,7 +3110,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f37(s1, s2);
+      s0 = peg$f41(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -2606,18 +3128,18 @@ function peg$parse(input, options) {
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       if (input.charCodeAt(peg$currPos) === 61) {
-        s3 = peg$c10;
+        s3 = peg$c11;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e15); }
+        if (peg$silentFails === 0) { peg$fail(peg$e16); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$parse_();
         s5 = peg$parseSum();
         if (s5 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f38(s1, s5);
+          s0 = peg$f42(s1, s5);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2633,7 +3155,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e53); }
+      if (peg$silentFails === 0) { peg$fail(peg$e58); }
     }
 
     return s0;
@@ -2643,12 +3165,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 7) === peg$c40) {
-      s1 = peg$c40;
+    if (input.substr(peg$currPos, 7) === peg$c45) {
+      s1 = peg$c45;
       peg$currPos += 7;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e54); }
+      if (peg$silentFails === 0) { peg$fail(peg$e59); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -2657,12 +3179,12 @@ function peg$parse(input, options) {
         if (s3 !== peg$FAILED) {
           s4 = peg$parse__();
           if (s4 !== peg$FAILED) {
-            if (input.substr(peg$currPos, 4) === peg$c41) {
-              s5 = peg$c41;
+            if (input.substr(peg$currPos, 4) === peg$c32) {
+              s5 = peg$c32;
               peg$currPos += 4;
             } else {
               s5 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e55); }
+              if (peg$silentFails === 0) { peg$fail(peg$e40); }
             }
             if (s5 !== peg$FAILED) {
               s6 = peg$parse__();
@@ -2670,7 +3192,7 @@ function peg$parse(input, options) {
                 s7 = peg$parseNameRef();
                 if (s7 !== peg$FAILED) {
                   peg$savedPos = s0;
-                  s0 = peg$f39(s3, s7);
+                  s0 = peg$f43(s3, s7);
                 } else {
                   peg$currPos = s0;
                   s0 = peg$FAILED;
@@ -2707,12 +3229,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 6) === peg$c42) {
-      s1 = peg$c42;
+    if (input.substr(peg$currPos, 6) === peg$c46) {
+      s1 = peg$c46;
       peg$currPos += 6;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e56); }
+      if (peg$silentFails === 0) { peg$fail(peg$e60); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -2728,7 +3250,7 @@ function peg$parse(input, options) {
             s5 = null;
           }
           peg$savedPos = s0;
-          s0 = peg$f40(s3, s4, s5);
+          s0 = peg$f44(s3, s4, s5);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -2751,22 +3273,22 @@ function peg$parse(input, options) {
     s0 = peg$currPos;
     s1 = peg$parse__();
     if (s1 !== peg$FAILED) {
-      if (input.substr(peg$currPos, 4) === peg$c41) {
-        s2 = peg$c41;
+      if (input.substr(peg$currPos, 4) === peg$c32) {
+        s2 = peg$c32;
         peg$currPos += 4;
       } else {
         s2 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e55); }
+        if (peg$silentFails === 0) { peg$fail(peg$e40); }
       }
       if (s2 !== peg$FAILED) {
         s3 = peg$parse__();
         if (s3 !== peg$FAILED) {
-          if (input.substr(peg$currPos, 9) === peg$c43) {
-            s4 = peg$c43;
+          if (input.substr(peg$currPos, 9) === peg$c47) {
+            s4 = peg$c47;
             peg$currPos += 9;
           } else {
             s4 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e57); }
+            if (peg$silentFails === 0) { peg$fail(peg$e61); }
           }
           if (s4 !== peg$FAILED) {
             s5 = peg$parse__();
@@ -2777,7 +3299,7 @@ function peg$parse(input, options) {
               }
               if (s6 !== peg$FAILED) {
                 peg$savedPos = s0;
-                s0 = peg$f41(s6);
+                s0 = peg$f45(s6);
               } else {
                 peg$currPos = s0;
                 s0 = peg$FAILED;
@@ -2819,7 +3341,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s4 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e59); }
+      if (peg$silentFails === 0) { peg$fail(peg$e63); }
     }
     if (s4 !== peg$FAILED) {
       while (s4 !== peg$FAILED) {
@@ -2829,7 +3351,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e59); }
+          if (peg$silentFails === 0) { peg$fail(peg$e63); }
         }
       }
     } else {
@@ -2838,11 +3360,11 @@ function peg$parse(input, options) {
     if (s3 !== peg$FAILED) {
       s4 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s5 = peg$c44;
+        s5 = peg$c48;
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e60); }
+        if (peg$silentFails === 0) { peg$fail(peg$e64); }
       }
       if (s5 !== peg$FAILED) {
         s6 = [];
@@ -2851,7 +3373,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s7 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e59); }
+          if (peg$silentFails === 0) { peg$fail(peg$e63); }
         }
         if (s7 !== peg$FAILED) {
           while (s7 !== peg$FAILED) {
@@ -2861,7 +3383,7 @@ function peg$parse(input, options) {
               peg$currPos++;
             } else {
               s7 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e59); }
+              if (peg$silentFails === 0) { peg$fail(peg$e63); }
             }
           }
         } else {
@@ -2886,15 +3408,15 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e61); }
+        if (peg$silentFails === 0) { peg$fail(peg$e65); }
       }
       if (s5 !== peg$FAILED) {
         if (input.charCodeAt(peg$currPos) === 45) {
-          s6 = peg$c45;
+          s6 = peg$c49;
           peg$currPos++;
         } else {
           s6 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e62); }
+          if (peg$silentFails === 0) { peg$fail(peg$e66); }
         }
         if (s6 === peg$FAILED) {
           s6 = null;
@@ -2905,7 +3427,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s8 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e59); }
+          if (peg$silentFails === 0) { peg$fail(peg$e63); }
         }
         if (s8 !== peg$FAILED) {
           while (s8 !== peg$FAILED) {
@@ -2915,7 +3437,7 @@ function peg$parse(input, options) {
               peg$currPos++;
             } else {
               s8 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e59); }
+              if (peg$silentFails === 0) { peg$fail(peg$e63); }
             }
           }
         } else {
@@ -2943,13 +3465,13 @@ function peg$parse(input, options) {
     }
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f42(s1);
+      s1 = peg$f46(s1);
     }
     s0 = s1;
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e58); }
+      if (peg$silentFails === 0) { peg$fail(peg$e62); }
     }
 
     return s0;
@@ -2959,12 +3481,12 @@ function peg$parse(input, options) {
     let s0, s1, s2, s3, s4, s5, s6, s7, s8, s9, s10, s11;
 
     s0 = peg$currPos;
-    if (input.substr(peg$currPos, 5) === peg$c46) {
-      s1 = peg$c46;
+    if (input.substr(peg$currPos, 5) === peg$c50) {
+      s1 = peg$c50;
       peg$currPos += 5;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e63); }
+      if (peg$silentFails === 0) { peg$fail(peg$e67); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse__();
@@ -2984,19 +3506,19 @@ function peg$parse(input, options) {
             s7 = peg$parseNameRef();
             if (s7 !== peg$FAILED) {
               s8 = peg$parse_();
-              if (input.substr(peg$currPos, 2) === peg$c35) {
-                s9 = peg$c35;
+              if (input.substr(peg$currPos, 2) === peg$c40) {
+                s9 = peg$c40;
                 peg$currPos += 2;
               } else {
                 s9 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e46); }
+                if (peg$silentFails === 0) { peg$fail(peg$e51); }
               }
               if (s9 !== peg$FAILED) {
                 s10 = peg$parse_();
                 s11 = peg$parseLimitPoint();
                 if (s11 !== peg$FAILED) {
                   peg$savedPos = s0;
-                  s0 = peg$f43(s3, s7, s11);
+                  s0 = peg$f47(s3, s7, s11);
                 } else {
                   peg$currPos = s0;
                   s0 = peg$FAILED;
@@ -3035,20 +3557,20 @@ function peg$parse(input, options) {
     peg$silentFails++;
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 45) {
-      s1 = peg$c45;
+      s1 = peg$c49;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e62); }
+      if (peg$silentFails === 0) { peg$fail(peg$e66); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
-      if (input.substr(peg$currPos, 3) === peg$c47) {
-        s3 = peg$c47;
+      if (input.substr(peg$currPos, 3) === peg$c51) {
+        s3 = peg$c51;
         peg$currPos += 3;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e65); }
+        if (peg$silentFails === 0) { peg$fail(peg$e69); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$currPos;
@@ -3063,7 +3585,7 @@ function peg$parse(input, options) {
         }
         if (s4 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f44();
+          s0 = peg$f48();
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -3078,12 +3600,12 @@ function peg$parse(input, options) {
     }
     if (s0 === peg$FAILED) {
       s0 = peg$currPos;
-      if (input.substr(peg$currPos, 3) === peg$c47) {
-        s1 = peg$c47;
+      if (input.substr(peg$currPos, 3) === peg$c51) {
+        s1 = peg$c51;
         peg$currPos += 3;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e65); }
+        if (peg$silentFails === 0) { peg$fail(peg$e69); }
       }
       if (s1 !== peg$FAILED) {
         s2 = peg$currPos;
@@ -3098,7 +3620,7 @@ function peg$parse(input, options) {
         }
         if (s2 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f45();
+          s0 = peg$f49();
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -3114,7 +3636,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e64); }
+      if (peg$silentFails === 0) { peg$fail(peg$e68); }
     }
 
     return s0;
@@ -3142,14 +3664,14 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e66); }
+        if (peg$silentFails === 0) { peg$fail(peg$e70); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parseProduct();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f46(s1, s5, s7);
+          s3 = peg$f50(s1, s5, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -3167,14 +3689,14 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e66); }
+          if (peg$silentFails === 0) { peg$fail(peg$e70); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$parse_();
           s7 = peg$parseProduct();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f46(s1, s5, s7);
+            s3 = peg$f50(s1, s5, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -3185,7 +3707,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f47(s1, s2);
+      s0 = peg$f51(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -3208,14 +3730,14 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e67); }
+        if (peg$silentFails === 0) { peg$fail(peg$e71); }
       }
       if (s5 !== peg$FAILED) {
         s6 = peg$parse_();
         s7 = peg$parseUnary();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f48(s1, s5, s7);
+          s3 = peg$f52(s1, s5, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -3233,14 +3755,14 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e67); }
+          if (peg$silentFails === 0) { peg$fail(peg$e71); }
         }
         if (s5 !== peg$FAILED) {
           s6 = peg$parse_();
           s7 = peg$parseUnary();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f48(s1, s5, s7);
+            s3 = peg$f52(s1, s5, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -3251,7 +3773,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f49(s1, s2);
+      s0 = peg$f53(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -3265,18 +3787,18 @@ function peg$parse(input, options) {
 
     s0 = peg$currPos;
     if (input.charCodeAt(peg$currPos) === 45) {
-      s1 = peg$c45;
+      s1 = peg$c49;
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e62); }
+      if (peg$silentFails === 0) { peg$fail(peg$e66); }
     }
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       s3 = peg$parseUnary();
       if (s3 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f50(s3);
+        s0 = peg$f54(s3);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -3288,18 +3810,18 @@ function peg$parse(input, options) {
     if (s0 === peg$FAILED) {
       s0 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 43) {
-        s1 = peg$c48;
+        s1 = peg$c52;
         peg$currPos++;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e68); }
+        if (peg$silentFails === 0) { peg$fail(peg$e72); }
       }
       if (s1 !== peg$FAILED) {
         s2 = peg$parse_();
         s3 = peg$parseUnary();
         if (s3 !== peg$FAILED) {
           peg$savedPos = s0;
-          s0 = peg$f51(s3);
+          s0 = peg$f55(s3);
         } else {
           peg$currPos = s0;
           s0 = peg$FAILED;
@@ -3325,18 +3847,18 @@ function peg$parse(input, options) {
       s2 = peg$currPos;
       s3 = peg$parse_();
       if (input.charCodeAt(peg$currPos) === 94) {
-        s4 = peg$c49;
+        s4 = peg$c53;
         peg$currPos++;
       } else {
         s4 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e69); }
+        if (peg$silentFails === 0) { peg$fail(peg$e73); }
       }
       if (s4 !== peg$FAILED) {
         s5 = peg$parse_();
         s6 = peg$parseUnary();
         if (s6 !== peg$FAILED) {
           peg$savedPos = s2;
-          s2 = peg$f52(s1, s6);
+          s2 = peg$f56(s1, s6);
         } else {
           peg$currPos = s2;
           s2 = peg$FAILED;
@@ -3349,7 +3871,7 @@ function peg$parse(input, options) {
         s2 = null;
       }
       peg$savedPos = s0;
-      s0 = peg$f53(s1, s2);
+      s0 = peg$f57(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -3369,11 +3891,11 @@ function peg$parse(input, options) {
         if (s0 === peg$FAILED) {
           s0 = peg$currPos;
           if (input.charCodeAt(peg$currPos) === 40) {
-            s1 = peg$c12;
+            s1 = peg$c13;
             peg$currPos++;
           } else {
             s1 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e17); }
+            if (peg$silentFails === 0) { peg$fail(peg$e18); }
           }
           if (s1 !== peg$FAILED) {
             s2 = peg$parse_();
@@ -3381,15 +3903,15 @@ function peg$parse(input, options) {
             if (s3 !== peg$FAILED) {
               s4 = peg$parse_();
               if (input.charCodeAt(peg$currPos) === 41) {
-                s5 = peg$c13;
+                s5 = peg$c14;
                 peg$currPos++;
               } else {
                 s5 = peg$FAILED;
-                if (peg$silentFails === 0) { peg$fail(peg$e18); }
+                if (peg$silentFails === 0) { peg$fail(peg$e19); }
               }
               if (s5 !== peg$FAILED) {
                 peg$savedPos = s0;
-                s0 = peg$f54(s3);
+                s0 = peg$f58(s3);
               } else {
                 peg$currPos = s0;
                 s0 = peg$FAILED;
@@ -3417,11 +3939,11 @@ function peg$parse(input, options) {
     if (s1 !== peg$FAILED) {
       s2 = peg$parse_();
       if (input.charCodeAt(peg$currPos) === 40) {
-        s3 = peg$c12;
+        s3 = peg$c13;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e17); }
+        if (peg$silentFails === 0) { peg$fail(peg$e18); }
       }
       if (s3 !== peg$FAILED) {
         s4 = peg$parse_();
@@ -3429,15 +3951,15 @@ function peg$parse(input, options) {
         if (s5 !== peg$FAILED) {
           s6 = peg$parse_();
           if (input.charCodeAt(peg$currPos) === 41) {
-            s7 = peg$c13;
+            s7 = peg$c14;
             peg$currPos++;
           } else {
             s7 = peg$FAILED;
-            if (peg$silentFails === 0) { peg$fail(peg$e18); }
+            if (peg$silentFails === 0) { peg$fail(peg$e19); }
           }
           if (s7 !== peg$FAILED) {
             peg$savedPos = s0;
-            s0 = peg$f55(s1, s5);
+            s0 = peg$f59(s1, s5);
           } else {
             peg$currPos = s0;
             s0 = peg$FAILED;
@@ -3479,7 +4001,7 @@ function peg$parse(input, options) {
         s7 = peg$parseSum();
         if (s7 !== peg$FAILED) {
           peg$savedPos = s3;
-          s3 = peg$f56(s1, s7);
+          s3 = peg$f60(s1, s7);
         } else {
           peg$currPos = s3;
           s3 = peg$FAILED;
@@ -3504,7 +4026,7 @@ function peg$parse(input, options) {
           s7 = peg$parseSum();
           if (s7 !== peg$FAILED) {
             peg$savedPos = s3;
-            s3 = peg$f56(s1, s7);
+            s3 = peg$f60(s1, s7);
           } else {
             peg$currPos = s3;
             s3 = peg$FAILED;
@@ -3515,7 +4037,7 @@ function peg$parse(input, options) {
         }
       }
       peg$savedPos = s0;
-      s0 = peg$f57(s1, s2);
+      s0 = peg$f61(s1, s2);
     } else {
       peg$currPos = s0;
       s0 = peg$FAILED;
@@ -3535,11 +4057,11 @@ function peg$parse(input, options) {
       s3 = peg$currPos;
       s4 = peg$parse_();
       if (input.charCodeAt(peg$currPos) === 40) {
-        s5 = peg$c12;
+        s5 = peg$c13;
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e17); }
+        if (peg$silentFails === 0) { peg$fail(peg$e18); }
       }
       if (s5 !== peg$FAILED) {
         s4 = [s4, s5];
@@ -3557,7 +4079,7 @@ function peg$parse(input, options) {
       }
       if (s2 !== peg$FAILED) {
         peg$savedPos = s0;
-        s0 = peg$f58(s1);
+        s0 = peg$f62(s1);
       } else {
         peg$currPos = s0;
         s0 = peg$FAILED;
@@ -3583,7 +4105,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s4 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e59); }
+      if (peg$silentFails === 0) { peg$fail(peg$e63); }
     }
     if (s4 !== peg$FAILED) {
       while (s4 !== peg$FAILED) {
@@ -3593,7 +4115,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s4 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e59); }
+          if (peg$silentFails === 0) { peg$fail(peg$e63); }
         }
       }
     } else {
@@ -3602,11 +4124,11 @@ function peg$parse(input, options) {
     if (s3 !== peg$FAILED) {
       s4 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s5 = peg$c44;
+        s5 = peg$c48;
         peg$currPos++;
       } else {
         s5 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e60); }
+        if (peg$silentFails === 0) { peg$fail(peg$e64); }
       }
       if (s5 !== peg$FAILED) {
         s6 = [];
@@ -3615,7 +4137,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s7 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e59); }
+          if (peg$silentFails === 0) { peg$fail(peg$e63); }
         }
         if (s7 !== peg$FAILED) {
           while (s7 !== peg$FAILED) {
@@ -3625,7 +4147,7 @@ function peg$parse(input, options) {
               peg$currPos++;
             } else {
               s7 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e59); }
+              if (peg$silentFails === 0) { peg$fail(peg$e63); }
             }
           }
         } else {
@@ -3654,11 +4176,11 @@ function peg$parse(input, options) {
     if (s2 === peg$FAILED) {
       s2 = peg$currPos;
       if (input.charCodeAt(peg$currPos) === 46) {
-        s3 = peg$c44;
+        s3 = peg$c48;
         peg$currPos++;
       } else {
         s3 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e60); }
+        if (peg$silentFails === 0) { peg$fail(peg$e64); }
       }
       if (s3 !== peg$FAILED) {
         s4 = [];
@@ -3667,7 +4189,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s5 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e59); }
+          if (peg$silentFails === 0) { peg$fail(peg$e63); }
         }
         if (s5 !== peg$FAILED) {
           while (s5 !== peg$FAILED) {
@@ -3677,7 +4199,7 @@ function peg$parse(input, options) {
               peg$currPos++;
             } else {
               s5 = peg$FAILED;
-              if (peg$silentFails === 0) { peg$fail(peg$e59); }
+              if (peg$silentFails === 0) { peg$fail(peg$e63); }
             }
           }
         } else {
@@ -3702,13 +4224,13 @@ function peg$parse(input, options) {
     }
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f59(s1);
+      s1 = peg$f63(s1);
     }
     s0 = s1;
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e58); }
+      if (peg$silentFails === 0) { peg$fail(peg$e62); }
     }
 
     return s0;
@@ -3721,7 +4243,7 @@ function peg$parse(input, options) {
     s1 = peg$parseIdentifier();
     if (s1 !== peg$FAILED) {
       peg$savedPos = s0;
-      s1 = peg$f60(s1);
+      s1 = peg$f64(s1);
     }
     s0 = s1;
 
@@ -3739,7 +4261,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s2 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e71); }
+      if (peg$silentFails === 0) { peg$fail(peg$e75); }
     }
     if (s2 !== peg$FAILED) {
       s3 = [];
@@ -3762,7 +4284,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e70); }
+      if (peg$silentFails === 0) { peg$fail(peg$e74); }
     }
 
     return s0;
@@ -3776,7 +4298,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s0 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e72); }
+      if (peg$silentFails === 0) { peg$fail(peg$e76); }
     }
 
     return s0;
@@ -3792,7 +4314,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e74); }
+      if (peg$silentFails === 0) { peg$fail(peg$e78); }
     }
     if (s1 !== peg$FAILED) {
       while (s1 !== peg$FAILED) {
@@ -3802,7 +4324,7 @@ function peg$parse(input, options) {
           peg$currPos++;
         } else {
           s1 = peg$FAILED;
-          if (peg$silentFails === 0) { peg$fail(peg$e74); }
+          if (peg$silentFails === 0) { peg$fail(peg$e78); }
         }
       }
     } else {
@@ -3811,7 +4333,7 @@ function peg$parse(input, options) {
     peg$silentFails--;
     if (s0 === peg$FAILED) {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e73); }
+      if (peg$silentFails === 0) { peg$fail(peg$e77); }
     }
 
     return s0;
@@ -3826,7 +4348,7 @@ function peg$parse(input, options) {
       peg$currPos++;
     } else {
       s1 = peg$FAILED;
-      if (peg$silentFails === 0) { peg$fail(peg$e74); }
+      if (peg$silentFails === 0) { peg$fail(peg$e78); }
     }
     while (s1 !== peg$FAILED) {
       s0.push(s1);
@@ -3835,7 +4357,7 @@ function peg$parse(input, options) {
         peg$currPos++;
       } else {
         s1 = peg$FAILED;
-        if (peg$silentFails === 0) { peg$fail(peg$e74); }
+        if (peg$silentFails === 0) { peg$fail(peg$e78); }
       }
     }
 

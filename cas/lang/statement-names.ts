@@ -72,5 +72,10 @@ export function statementNames(s: Statement): StatementNames {
     case 'determinant':
       // t is the potential's variable
       return { defined: [s.name.name], used: namesIn([s.potential, s.length], new Set(['t'])), variables: ['t'] };
+    case 'sum':
+      return { defined: [s.name.name], used: namesIn([s.term], new Set([s.index.name])), variables: [s.index.name] };
+    case 'sliced':
+      // t is the potential's variable, as in determinant
+      return { defined: [s.name.name], used: namesIn([s.potential, s.length, s.slices], new Set(['t'])), variables: ['t'] };
   }
 }

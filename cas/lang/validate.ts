@@ -87,6 +87,8 @@ export function checkStatementNames(s: Statement): ParseError | null {
     case 'derivative': return checkName(s.name) ?? checkExprNames(s.expr);
     case 'product': return checkName(s.name) ?? checkName(s.index) ?? checkExprNames(s.factor);
     case 'determinant': return checkName(s.name) ?? checkExprNames(s.potential) ?? checkExprNames(s.length);
+    case 'sum': return checkName(s.name) ?? checkName(s.index) ?? checkExprNames(s.term);
+    case 'sliced': return checkName(s.name) ?? checkExprNames(s.potential) ?? checkExprNames(s.length) ?? checkExprNames(s.slices);
     default: return null;
   }
 }

@@ -20,6 +20,8 @@ import { complexApprox, complexApproxLatex } from '../../shared/record/numbers.j
 import { checkDeadline } from '../deadline.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { resultNamed } from './shared.js';
+import { constantRatio } from '../verdicts/identity.js';
+import { gqToString, gToNumber, Q1, qadd, qIsZero, qmul, qsub } from '../exact/q.js';
 
 const SAMPLES = 24;
 
@@ -52,6 +54,18 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
   else verdict = 'different';
   report.verdict = verdict;
   report.phaseOverPiQuarter = constant && Math.abs(modulus - 1) < 1e-9 && isQuarter ? (m === -4 ? 4 : m) : null;
+  // proved on the whole domain when the ratio is an exact constant of the forms (verdicts/identity.ts),
+  // kept only when every sampled ratio agrees with it
+  const c = a.expr && b.expr ? constantRatio(a.expr, b.expr) : null;
+  const cv = c && gToNumber(c);
+  const provedRatio = !!cv && ratios.every(({ r }) => Math.hypot(r.re - cv.re, r.im - cv.im) <= 1e-9 * Math.max(1, Math.hypot(cv.re, cv.im)));
+  if (provedRatio) {
+    const unit = qIsZero(qsub(qadd(qmul(c!.re, c!.re), qmul(c!.im, c!.im)), Q1));
+    const quarter = c!.im.n === 0n ? (c!.re.n > 0n ? 0 : 4) : c!.re.n === 0n ? (c!.im.n > 0n ? 2 : -2) : null;
+    verdict = unit && quarter === 0 ? 'equal' : unit ? 'phase' : 'different';
+    report.verdict = verdict;
+    report.phaseOverPiQuarter = unit && quarter !== null ? quarter : null;
+  }
   // the symbolic ratio, kept only when it agrees with the numbers
   let ratioText: string | null = null;
   let ratioLatex: string | null = null;
@@ -71,10 +85,12 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
     });
     if (symAgrees) { ratioText = toText(t); ratioLatex = toLatex(t); }
   }
+  if (provedRatio) { ratioText = gqToString(c!); ratioLatex = ratioText.replace(/\*/g, ''); }
   const worst = ratios.reduce((w, x) => (Math.hypot(x.r.re - 1, x.r.im) > Math.hypot(w.r.re - 1, w.r.im) ? x : w), ratios[0]!);
-  const basis = names.length
+  const basis = provedRatio ? { kind: 'proved' as const } : names.length
     ? sampledBasis(domainsOf(ctx, names), names, ratios.length, ratios.filter(({ r }) => Math.hypot(r.re - r0.re, r.im - r0.im) < 1e-9 * Math.max(1, modulus)).length)
     : { kind: 'numeric' as const };
+  if (provedRatio) report.proof = 'proved';
   report.steps.push({
     kind: 'comparison', a: s.target.name, b: s.other.name,
     ratio: ratioText === null ? null : { text: ratioText, latex: ratioLatex! },

@@ -17,7 +17,11 @@ export interface GaussianInfo {
   contour: { of: string; angles: number[]; labels: string[] } | null;
 }
 
-export interface ParamInfo { domain: Domain; line: number }
+/** integer: declared `positive integer` (a count such as a number of slices); every verdict on positive reals holds for it too. */
+/** sum_n exp(-pi*a*n^2 + 2*pi*i*b*n + g) with a, b, g rational in the parameters (and pi). */
+export interface LatticeInfo { a: RatFunc; b: RatFunc; g: RatFunc }
+
+export interface ParamInfo { domain: Domain; line: number; integer?: boolean }
 
 export interface ResultInfo {
   line: number;
@@ -33,6 +37,8 @@ export interface ResultInfo {
   definition?: Expr;
   /** A Berezin integral's Grassmann variables (in the order written) and its antisymmetric A: moments under it. */
   berezin?: { vars: string[]; A: RatFunc[][] };
+  /** A Gaussian sum over the integers (sum statement): the term exp(-pi*a*n^2 + 2*pi*i*b*n + g), exactly; the expansion engine and verify read it. */
+  lattice?: LatticeInfo;
 }
 
 /** A result that has a value function: what resultNamed hands to the statements that use one. */

@@ -123,6 +123,7 @@ export function evaluateDerivative(s: Extract<Statement, { kind: 'derivative' }>
           case 'cos': return neg(mul(call('sin', a), da));
           case 'sinh': return mul(call('cosh', a), da);
           case 'cosh': return mul(call('sinh', a), da);
+          case 'asinh': return div(da, call('sqrt', add(num(1), pow(a, num(2)))));
         }
         throw new StatementFailure(`${e.fn} cannot be differentiated here.`, line, s.span.start.column);
       }

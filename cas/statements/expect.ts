@@ -5,6 +5,7 @@
  */
 import type { StatementReport, Step } from '../../shared/evaluation.js';
 import { decideExpectExactly } from '../verdicts/expectExact.js';
+import { sameFunction } from '../verdicts/identity.js';
 import { renderStep } from '../../shared/record/render.js';
 import type { Statement } from '../lang/ast.js';
 import { evaluate } from '../expr/evaluate.js';
@@ -49,6 +50,12 @@ export function evaluateExpect(s: Extract<Statement, { kind: 'expect' }>, ctx: C
     };
     report.steps.push(step);
     if (!exact.holds) report.error = { message: `Expectation failed: ${renderStep(step).text}`, line, column: s.span.start.column };
+    return report;
+  }
+  // the same function exactly (rational in the parameters and in values of exp, sinh, cosh, sin, cos)
+  if (result.expr && sameFunction(result.expr, s.expr)) {
+    report.proof = 'proved';
+    report.steps.push({ kind: 'expect', name, expected: formulaOf(s.expr), holds: true, exact: true, basis: { kind: 'proved' }, worst: null, regions: [], how: 'identical' });
     return report;
   }
   const points = ordered.length ? samplePoints(domains, ordered, EXPECT_SAMPLES, 777) : [new Map()];

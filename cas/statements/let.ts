@@ -10,10 +10,12 @@ import { evaluate } from '../expr/evaluate.js';
 import { freeNames, substitute } from '../expr/names.js';
 import { formulaOf } from '../expr/print.js';
 import { tidy } from '../expr/tidy.js';
+import { exactDecimals } from '../expr/numberExpr.js';
 import { rewriteChecked } from '../algebra/adapter.js';
 import { sampledBasis, samplePoints, type Point } from '../domains/sample.js';
 import { complexText, piMultiple } from '../gaussian/describe.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
+import { etaOutsideDomain } from './etaArguments.js';
 
 function calls(e: Expr, out: Extract<Expr, { t: 'call' }>[] = []): Extract<Expr, { t: 'call' }>[] {
   if (e.t === 'call') { if (e.fn === 'log' || e.fn === 'sqrt') out.push(e); e.args.forEach((a) => calls(a, out)); }
@@ -38,6 +40,8 @@ export function evaluateLet(s: Extract<Statement, { kind: 'let' }>, ctx: Context
     r.params.forEach((p) => used.add(p));
   }
   const params = [...ctx.params.keys()].filter((p) => used.has(p));
+  const etaOff = etaOutsideDomain(s.expr, ctx);
+  if (etaOff) throw new StatementFailure(etaOff, line, s.span.start.column);
   const valueAt = (p: Point) => {
     const env = new Map(p);
     for (const n of resultsUsed) {
@@ -82,10 +86,11 @@ export function evaluateLet(s: Extract<Statement, { kind: 'let' }>, ctx: Context
     });
   }
   const value = params.length ? null : valueAt(new Map());
-  const shown = formulaOf(formHolds ? form : s.expr);
+  // a decimal the user typed is shown as the fraction it stands for
+  const shown = formulaOf(exactDecimals(formHolds ? form : s.expr));
   report.result = { ...shown, value };
   report.steps.push({
-    kind: 'derived', name, definition: formulaOf(s.expr), closed: formHolds ? formulaOf(form) : null,
+    kind: 'derived', name, definition: formulaOf(s.expr), closed: formHolds ? formulaOf(exactDecimals(form)) : null,
     compared, agreeing: agree, usesResults: resultsUsed.length > 0, value,
   });
   ctx.results.set(name, { line, unavailable: null, expr: formHolds ? form : null, params, valueAt, definition: s.expr });

@@ -48,7 +48,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
   const exact = exactRoute(s, r, ctx, pn, dom);
   if (exact) { report.steps.push(exact.step); report.result = exact.result; return report; }
   const general = generalRoute(s, ctx, pn, dom, pts, r.valueAt);
-  if (general && 'step' in general) { report.steps.push(general.step); report.result = general.result; return report; }
+  if (general && 'step' in general) { report.steps.push(...(general.extra ?? []), general.step); report.result = general.result; return report; }
   const reason = general?.reason;
   if (s.to !== 'inf' && s.to !== '-inf') {
     const to = s.to;
@@ -59,7 +59,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
     if (r.expr) {
       const sub1 = rewriteChecked('simplify', substitute(r.expr, new Map([[pn, to]])), pts);
       if (pts.every((p) => exprAt(sub1.expr, p))) { candidate = tidy(sub1.expr); how = `substituting ${pn} = ${toText(to)} in the closed form`; }
-      else { const l = limitOf(r.expr, pn, to); if (l) { candidate = tidy(l); how = 'the algebra package\'s limit'; } }
+      else if (algebraLimitSafe(r.expr)) { const l = limitOf(r.expr, pn, to); if (l) { candidate = tidy(l); how = 'the algebra package\'s limit'; } }
     }
     // numeric check: approach v along the domain's direction
     const dir = dom === 'negative' ? -1 : 1;
@@ -121,7 +121,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
     const power = alpha === 0 ? num(1) : pow(P, complexExpr({ re: alpha, im: 0 }));
     // C from the algebra package where it gives one, else numerically
     let C: Expr | null = null;
-    if (r.expr) {
+    if (r.expr && algebraLimitSafe(r.expr)) {
       const l = limitOf(div(r.expr, power), pn, 'inf');
       if (l && pts.every((p) => { const c = exprAt(l, p); const q = new Map(p); q.set(pn, new Complex(1e7, 0)); const w = r.valueAt(q); return c && w && rd({ re: w.re / 1e7 ** alpha, im: w.im / 1e7 ** alpha }, c) < 1e-4 * (1 + 0); })) {
         C = tidy(rewriteChecked('simplify', l, pts).expr);
@@ -160,7 +160,7 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
     if (rest.every((z) => z && Math.hypot(z.re, z.im) > 0)) {
       const beta = Math.log(Math.hypot(rest[1]!.re, rest[1]!.im) / Math.hypot(rest[0]!.re, rest[0]!.im)) / Math.log(10);
       const [bp, bq] = rational(beta);
-      if (Math.abs(bp / bq - beta) < 1e-2 && bq <= 12 && beta < alpha - 0.5 && r.expr) {
+      if (Math.abs(bp / bq - beta) < 1e-2 && bq <= 12 && beta < alpha - 0.5 && r.expr && algebraLimitSafe(r.expr)) {
         const b = bp / bq;
         const l2 = limitOf(div(sub(r.expr, lead), pow(P, complexExpr({ re: b, im: 0 }))), pn, 'inf');
         const ok = l2 && pts.every((p) => { const c = exprAt(l2, p); const q = new Map(p); q.set(pn, new Complex(1e3, 0)); const w = r.valueAt(q); const L = exprAt(lead, q); return c && w && L && rd({ re: (w.re - L.re) / 1e3 ** b, im: (w.im - L.im) / 1e3 ** b }, c) < 1e-3; });
@@ -186,6 +186,20 @@ export function evaluateLimit(s: Extract<Statement, { kind: 'limit' }>, ctx: Con
   return report;
 }
 
+/**
+ * The algebra package's limit does not return on asinh of 1/p (a time-sliced determinant whose
+ * exact expansion was refused, e.g. V < 0): such an expression keeps to the exact expansion
+ * and the values, and an unknown limit says so instead of running out of time.
+ */
+function algebraLimitSafe(e: Expr): boolean {
+  switch (e.t) {
+    case 'call': return e.fn !== 'asinh' && e.args.every(algebraLimitSafe);
+    case 'neg': return algebraLimitSafe(e.a);
+    case 'bin': return algebraLimitSafe(e.a) && algebraLimitSafe(e.b);
+    default: return true;
+  }
+}
+
 /** How p approaches the limit point: one side at a domain end, both sides (which must agree) inside. */
 function approachesOf(s: Extract<Statement, { kind: 'limit' }>, dom: string): Approach[] | null {
   if (s.to === 'inf' || s.to === '-inf') {
@@ -204,13 +218,13 @@ function approachesOf(s: Extract<Statement, { kind: 'limit' }>, dom: string): Ap
 function generalRoute(
   s: Extract<Statement, { kind: 'limit' }>, ctx: Context, pn: string, dom: string, pts: Point[],
   valueAt: (p: Point) => { re: number; im: number } | null,
-): { step: Step; result: { text: string; latex: string; value: null } } | { reason: string } | null {
+): { step: Step; result: { text: string; latex: string; value: null }; extra?: Step[] } | { reason: string } | null {
   if (dom === 'complex') return { reason: `${pn} is complex; limits are taken along the real axis of a real parameter` };
   const hows = approachesOf(s, dom);
   if (!hows) return null;
   const domains = domainsOf(ctx, [...ctx.params.keys()]);
   if ([...domains.values()].includes('complex')) return { reason: 'a complex parameter is present; the expansion needs real parameters to decide signs' };
-  const resolve = (n: string) => { const r = ctx.results.get(n); return r ? { ...(r.gaussian ? { gaussian: r.gaussian } : {}), ...(r.definition ? { definition: r.definition } : {}) } : null; };
+  const resolve = (n: string) => { const r = ctx.results.get(n); return r ? { ...(r.gaussian ? { gaussian: r.gaussian } : {}), ...(r.definition ? { definition: r.definition } : {}), ...(r.lattice ? { lattice: r.lattice } : {}) } : null; };
   const results = hows.map((how) => generalLimit(nameExpr(s.target.name), pn, how, domains, resolve, { points: pts, valueAt }));
   const first = results[0]!;
   if (first.outcome === 'unknown') return { reason: first.reason };
@@ -222,8 +236,9 @@ function generalRoute(
     outcome: first.outcome, formula: first.formula, value: null, method: 'expansion', basis: { kind: 'proved' },
     ...(first.rate ? { rate: first.rate } : {}),
     ...(first.correction && hows.length === 1 ? { correction: { formula: first.correction.formula, power: first.correction.power } } : {}),
+    ...(first.remainder ? { remainder: first.remainder } : {}),
   };
-  return { step, result: { text: first.formula.text, latex: first.formula.latex, value: null } };
+  return { step, result: { text: first.formula.text, latex: first.formula.latex, value: null }, extra: first.modular ?? [] };
 }
 
 /** A let that is c*log(Z) of an integral Z, c a constant or the parameter: its parts. */

@@ -21,11 +21,17 @@ import { rfIm, rfRe } from '../verdicts/exactGaussian.js';
 import { ratfunc, rfIsZero } from '../exact/ratfunc.js';
 import { polyFromTerms } from '../exact/poly.js';
 import { Expander, monExpr, Refusal, scaleExpr, type ExpansionInput, type Mon, type Ser } from '../verdicts/expansion.js';
+import { LatticeExpander, usesLattice } from '../verdicts/expansionLattice.js';
+import type { StepOf } from '../../shared/evaluation.js';
 import type { Approach } from '../verdicts/asymptotics.js';
 import type { Point } from '../domains/sample.js';
 
 export type GeneralLimit =
-  | { outcome: 'value' | 'asymptotic' | 'divergent' | 'oscillating'; formula: Formula; rate?: Formula; correction?: { formula: Formula; power: number } }
+  | {
+    outcome: 'value' | 'asymptotic' | 'divergent' | 'oscillating'; formula: Formula; rate?: Formula; correction?: { formula: Formula; power: number };
+    /** An exponentially small remainder beyond all orders (Gaussian sums and eta), and the modular transformations behind it. */
+    remainder?: { order: Formula; bound: Formula | null }; modular?: StepOf<'modular'>[];
+  }
   | { outcome: 'unknown'; reason: string };
 
 const PRECISIONS = [q(4n), q(8n), q(16n)];
@@ -35,7 +41,8 @@ function expand(def: Expr, input: ExpansionInput): { x: Expander; f: Ser } | { r
   let last = '';
   let found: { x: Expander; f: Ser } | null = null;
   for (const prec of PRECISIONS) {
-    const x = new Expander(input, prec);
+    // eta and Gaussian sums enter through their modular transformations, with bounded remainders
+    const x = usesLattice(def, input.resolve) ? new LatticeExpander(input, prec) : new Expander(input, prec);
     try {
       const f = x.expr(def);
       if (!f.terms.length && f.err !== null) { last = 'the expression cancels to every order computed'; continue; }
@@ -61,7 +68,15 @@ export function generalLimit(
   const got = expand(def, { p, how, domains, resolve });
   if ('reason' in got) return { outcome: 'unknown', reason: got.reason };
   const { x, f } = got;
-  if (!f.terms.length) return { outcome: 'value', formula: formulaOf(num(0)) }; // exactly zero
+  if (!f.terms.length) {
+    // every power cancels: 0, exactly up to an exponentially small remainder when one is carried
+    const rest = x instanceof LatticeExpander ? x.remainderOf(f) : null;
+    return {
+      outcome: 'value', formula: formulaOf(num(0)),
+      ...(rest ? { remainder: { order: formulaOf(rest.order), bound: rest.bound ? formulaOf(rest.bound) : null } } : {}),
+      ...(x instanceof LatticeExpander && x.uses.length ? { modular: x.uses } : {}),
+    };
+  }
   const lead = f.terms[0]!;
   const term = (t: Mon) => monExpr(x, t, p, how);
   const scale = scaleExpr(x, f.S, p, how);
@@ -70,16 +85,19 @@ export function generalLimit(
 
   // guards: the leading coefficient is nonzero at sample points; the expansion matches the values
   const atPoint = (e: Expr, pt: Point) => { try { return evaluate(e, pt); } catch { return null; } };
+  // a constant leading term is the limit even where it vanishes (everything after it tends to 0), so
+  // a zero there is no missed cancellation: -log(k)/2 at k = 1 is the limit 0
+  const constantLead = !f.S.length && qsign(lead.a) === 0 && lead.m === 0;
   for (const pt of samples.points) {
     const c = atPoint(x.exprOf(lead.c), pt);
     // the size of the numerator's terms, against which a vanishing sum is judged
     const parts = [...lead.c.num.terms.values()].map((t) => atPoint(x.exprOf(ratfunc(polyFromTerms([t]), lead.c.den)), pt));
     const size = parts.reduce((s, z) => s + (z ? Math.hypot(z.re, z.im) : Infinity), 0);
-    if (!c || !Number.isFinite(c.re) || !(Math.hypot(c.re, c.im) > 1e-9 * size)) return { outcome: 'unknown', reason: 'the leading coefficient vanishes numerically at a sample point, so the exact expansion may have missed a cancellation' };
+    if (!c || !Number.isFinite(c.re) || (!constantLead && !(Math.hypot(c.re, c.im) > 1e-9 * size))) return { outcome: 'unknown', reason: 'the leading coefficient vanishes numerically at a sample point, so the exact expansion may have missed a cancellation' };
   }
   const mismatch = checkAgainstValues(withScale(known), p, how, samples, f, lead);
   if (mismatch) return { outcome: 'unknown', reason: mismatch };
-  if (!x.nonzero(lead.c)) return { outcome: 'unknown', reason: 'the leading coefficient may vanish for some values of the other parameters' };
+  if (!constantLead && !x.nonzero(lead.c)) return { outcome: 'unknown', reason: 'the leading coefficient may vanish for some values of the other parameters' };
 
   const leading = withScale(term(lead));
   if (f.S.length) {
@@ -104,7 +122,12 @@ export function generalLimit(
   if (qsign(lead.a) > 0 || (qsign(lead.a) === 0 && lead.m < 0)) return { outcome: 'value', formula: formulaOf(num(0)), rate: formulaOf(leading) };
   if (qsign(lead.a) === 0 && lead.m === 0) {
     const corr = next(lead);
-    return { outcome: 'value', formula: formulaOf(term(lead)), ...(corr ? { correction: { formula: formulaOf(term(corr)), power: powerIn(corr.a) } } : {}) };
+    const rest = x instanceof LatticeExpander ? x.remainderOf(f) : null;
+    return {
+      outcome: 'value', formula: formulaOf(term(lead)), ...(corr ? { correction: { formula: formulaOf(term(corr)), power: powerIn(corr.a) } } : {}),
+      ...(rest && !corr ? { remainder: { order: formulaOf(rest.order), bound: rest.bound ? formulaOf(rest.bound) : null } } : {}),
+      ...(x instanceof LatticeExpander && x.uses.length ? { modular: x.uses } : {}),
+    };
   }
   // divergent: every term that does not vanish, when all of them are known (err > 0)
   const big = f.terms.filter((t) => !small.includes(t));

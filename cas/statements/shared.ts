@@ -33,6 +33,9 @@ export function bindPoint(ctx: Context, bindings: readonly Binding[], line: numb
     if ((dom === 'positive' && !(v.re > 0)) || (dom === 'negative' && !(v.re < 0)) || (dom === 'nonzero' && v.re === 0)) {
       throw new StatementFailure(`${b.name.name} is declared ${dom}; ${v.re} is outside that domain.`, line, b.name.span.start.column);
     }
+    if (ctx.params.get(b.name.name)!.integer && !Number.isInteger(v.re)) {
+      throw new StatementFailure(`${b.name.name} is declared a positive integer; ${v.re} is not a whole number.`, line, b.name.span.start.column);
+    }
     p.set(b.name.name, new Complex(v.re, v.im));
   }
   return p;

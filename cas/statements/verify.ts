@@ -16,6 +16,7 @@ import { describePoint, pointRecord, rng, type Point } from '../domains/sample.j
 import { complexApprox, complexApproxLatex } from '../../shared/record/numbers.js';
 import { blankReport, StatementFailure, type Context } from './context.js';
 import { angleFormula, bindPoint, rel, resultNamed, unitLine } from './shared.js';
+import { isSeriesTarget, verifySeries } from './verifySeries.js';
 
 export const DEFAULT_TOLERANCE = 1e-8;
 /** The quadrature's own time budget (below the statement's limit, so that hitting it is reported, not fatal). */
@@ -96,7 +97,8 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
   const report = blankReport(line, 'verify', name);
   const result = resultNamed(ctx, s.target, line, 'check');
   const g = result.gaussian;
-  if (!g) throw new StatementFailure(`${name} is a derived quantity, not an integral; verify checks integrals and rotated results.`, line, s.target.span.start.column);
+  const series = isSeriesTarget(result, ctx);
+  if (!g && !series) throw new StatementFailure(`${name} is a derived quantity, not an integral; verify checks integrals and rotated results.`, line, s.target.span.start.column);
   const p = bindPoint(ctx, s.at, line);
   const missing = result.params.filter((x) => !p.has(x));
   if (missing.length) throw new StatementFailure(`${name} depends on ${missing.join(', ')}; give ${missing.length > 1 ? 'them values' : 'it a value'} with at ${missing.map((m) => `${m} = ...`).join(', ')}.`, line, s.span.start.column);
@@ -107,6 +109,8 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
     if (!(t.im === 0 && t.re > 0 && t.re < 1)) throw new StatementFailure('The tolerance must be a number between 0 and 1.', line, s.span.start.column);
     tolerance = t.re;
   }
+  // sums and eta: partial sums and products against the closed-form side (verifySeries.ts)
+  if (!g) return verifySeries(name, result, p, tolerance, line, s.span.start.column, ctx, report);
   const n = g.vars.length;
   const where = p.size ? ` at ${describePoint(p)}` : '';
   const contourWords = g.contour

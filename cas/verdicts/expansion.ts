@@ -32,6 +32,7 @@ import type { Expr } from '../lang/ast.js';
 import { add, call, div, mul, name as nameExpr, neg, num, pow, sub } from '../expr/build.js';
 import { freeNames, substitute } from '../expr/names.js';
 import { evaluate } from '../expr/evaluate.js';
+import { toText } from '../expr/print.js';
 import { Complex } from 'complex.js';
 import { qExpr, ratExpr, sqrtExpr } from '../expr/fromExact.js';
 import { coefficients, polyVar, variables, type Poly } from '../exact/poly.js';
@@ -72,7 +73,7 @@ export class Expander {
   readonly atoms = new Map<string, Atom>();
   private readonly byKey = new Map<string, Atom>();
   private readonly u = '%u';
-  constructor(private readonly input: ExpansionInput, private readonly prec: Q) {}
+  constructor(protected readonly input: ExpansionInput, private readonly prec: Q) {}
 
   // --- the coefficient field ---------------------------------------------------------
 
@@ -344,7 +345,8 @@ export class Expander {
     if (terms.some((t) => qsign(t.a) <= 0)) refuse('a correction is not smaller than the leading term by a power (a logarithmic correction)');
     return { L, h: { S: [], terms, err: f.err && qsub(f.err, L.a) } };
   }
-  private exprText(c: K): string { return JSON.stringify(this.exprOf(c)).slice(0, 60); }
+  /** The coefficient as infix text for a refusal (shortened: a reason, not a record). */
+  private exprText(c: K): string { const t = toText(this.exprOf(c, true)); return t.length > 80 ? `${t.slice(0, 77)}...` : t; }
 
   /** sum_j coef(j) h^j up to the working precision; h small. */
   private powerSeries(h: Ser, coef: (j: number) => K): Ser {
@@ -418,6 +420,48 @@ export class Expander {
     const s0 = this.constant(rfIsZero(c0) ? RF0 : this.trigAtom('sin', c0));
     const k0 = this.constant(rfIsZero(c0) ? RF1 : this.trigAtom('cos', c0));
     return fn === 'sin' ? this.addS(this.mulS(s0, cosH), this.mulS(k0, sinH)) : this.addS(this.mulS(k0, cosH), this.negS(this.mulS(s0, sinH)));
+  }
+
+  /**
+   * sinh or cosh of a bounded argument c0 + h (h -> 0), as sinh(c0) cosh(h) + cosh(c0) sinh(h)
+   * with sinh(c0) and cosh(c0) kept as atoms: a real c0 makes cosh(c0) positive and sinh(c0)
+   * signed like c0, which the exp form (two independent exp atoms) cannot show. Null for an
+   * unbounded argument (the exp form then takes it).
+   */
+  private hypS(fn: 'sinh' | 'cosh', f: Ser): Ser | null {
+    if (f.S.length || f.terms.some((t) => qsign(t.a) < 0 || (qsign(t.a) === 0 && t.m !== 0))) return null;
+    if (f.err !== null && qsign(f.err) <= 0) return null;
+    const c0 = f.terms.filter((t) => qsign(t.a) === 0).reduce((a, t) => rfAdd(a, t.c), RF0);
+    const h: Ser = { S: [], terms: f.terms.filter((t) => qsign(t.a) > 0), err: f.err };
+    let fact = 1n;
+    const facts: bigint[] = [1n];
+    for (let j = 1; j < 200; j++) { fact *= BigInt(j); facts.push(fact); }
+    const sinhH = this.powerSeries(h, (j) => (j % 2 ? rfConst(q(1n, facts[j]!)) : RF0));
+    const coshH = this.powerSeries(h, (j) => (j % 2 ? RF0 : rfConst(q(1n, facts[j]!))));
+    const real = this.realSymbols(c0) && rfIsZero(rfIm(c0));
+    const sign = real ? this.sign(c0) : 0;
+    const s0 = rfIsZero(c0) ? RF0 : this.atom('sinh', c0, () => ({ expr: call('sinh', this.exprOf(c0)), real, positive: sign > 0, nonzero: sign !== 0 }));
+    const k0 = rfIsZero(c0) ? RF1 : this.atom('cosh', c0, () => ({ expr: call('cosh', this.exprOf(c0)), real, positive: real, nonzero: real }));
+    const S0 = this.constant(s0); const K0 = this.constant(k0);
+    return fn === 'sinh' ? this.addS(this.mulS(S0, coshH), this.mulS(K0, sinhH)) : this.addS(this.mulS(K0, coshH), this.mulS(S0, sinhH));
+  }
+
+  /**
+   * asinh of an argument that tends to 0 (every term a positive power of u): the odd series
+   * asinh h = sum_k (-1)^k (2k)!/(4^k (k!)^2 (2k+1)) h^(2k+1). This is what a time-sliced
+   * determinant needs: theta = 2*asinh(eps*sqrt(V)/2) with eps = L/N is x/N - x^3/(24 N^3) + ...
+   * An argument with a nonzero limit would need asinh of that limit as an atom and is refused.
+   */
+  asinhS(f: Ser): Ser {
+    if (f.S.length || f.terms.some((t) => qsign(t.a) <= 0)) refuse('asinh of an argument that does not tend to 0');
+    const coef = (j: number): K => {
+      if (j % 2 === 0) return RF0;
+      const k = (j - 1) / 2;
+      let c = q(1n, BigInt(2 * k + 1)); // (2k)!/(4^k (k!)^2) built as prod_{i<k} (2i+1)/(2i+2)
+      for (let i = 0; i < k; i++) c = qmul(c, q(BigInt(2 * i + 1), BigInt(2 * i + 2)));
+      return rfConst(k % 2 ? qneg(c) : c);
+    };
+    return this.powerSeries(f, coef);
   }
 
   // --- leaves -----------------------------------------------------------------------------
@@ -504,10 +548,13 @@ export class Expander {
           case 'sqrt': return this.powS(a, q(1n, 2n));
           case 'sin': case 'cos': return this.trigS(e.fn, a);
           case 'sinh': case 'cosh': {
+            const bounded = this.hypS(e.fn, a);
+            if (bounded) return bounded;
             const half = this.constant(rfConst(q(1n, 2n)));
             const ep = this.expS(a); const em = this.expS(this.negS(a));
             return this.mulS(half, this.addS(ep, e.fn === 'sinh' ? this.negS(em) : em));
           }
+          case 'asinh': return this.asinhS(a);
         }
         return refuse(`the function ${e.fn}`);
       }

@@ -48,7 +48,7 @@ export function reviewableStatements(source: string): ReviewableStatement[] {
       if (statement.kind === 'note') continue;
       const names = statementNames(statement);
       const text = collapseSpaces(source.slice(statement.span.start.offset, statement.span.end.offset));
-      const paramDomains = statement.kind === 'param' ? new Map(names.defined.map((n) => [n, statement.domain] as const)) : undefined;
+      const paramDomains = statement.kind === 'param' ? new Map(names.defined.map((n) => [n, statement.integer ? `${statement.domain} integer` : statement.domain] as const)) : undefined;
       entries.push({ line: parsed.line, text, own: treeText(statement), defined: names.defined, used: names.used, paramDomains });
     } else {
       if (parsed.kind === 'note') continue;

@@ -144,6 +144,12 @@ function expect(s: StepOf<'expect'>): RenderedStep {
   if (s.basis.kind === 'proved' && s.how !== 'sampled') {
     const c = s.counterexample;
     const example = c ? `; for example at ${Object.keys(c.at).length ? pointText(c.at) : 'the computed value'}, ${s.name} ${complexApprox(c.lhs, 12)} but the expected value is ${c.rhs ? complexApprox(c.rhs, 12) : 'not a finite number'}` : '';
+    if (s.holds && s.how === 'identical') {
+      return {
+        text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: the two sides are the same rational function of the parameters and of the values of exp, sinh, cosh, sin and cos in them (no branch enters).`,
+        latex: `${s.name} = ${s.expected.latex}`,
+      };
+    }
     if (s.holds) {
       return {
         text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: both sides have the same square and exponent exactly, and the same sign wherever ${s.name} is defined.`,
@@ -294,7 +300,7 @@ function comparison(s: StepOf<'comparison'>): RenderedStep {
 }
 
 /** exp(i*pi*m/4) in its simplest exact form: 1, i, -1, -i, exp(i*pi/4), exp(3*i*pi/4), exp(-i*pi/4), ... */
-function quarterPhase(m: number): string {
+export function quarterPhase(m: number): string {
   const r = ((m % 8) + 8) % 8;
   const named: Record<number, string> = { 0: '1', 2: 'i', 4: '-1', 6: '-i' };
   if (named[r]) return named[r]!;
@@ -366,6 +372,12 @@ function regularisation(s: StepOf<'regularisation'>): RenderedStep {
   };
 }
 
+function factorisationText(f: NonNullable<StepOf<'mode-product'>['factorisation']>, leading: string): string {
+  const parts = f.factors.map((x) => `(${x.factor.text})${x.power > 1 ? `^${x.power}` : ''}`).join(' * ');
+  const how = `${f.repeated ? 'repeated factors by the square-free decomposition (gcd of P and dP/dn), ' : ''}factors of degree 1 and 2 found from numerical roots followed through the parameters and each confirmed by exact division, the product checked identically`;
+  return `The closed forms are for factors of degree 1 and 2, so P is factored exactly over the rational functions of the parameters, P(n) = ${leading === '1' ? '' : `${leading} * `}${parts} (${how}). `;
+}
+
 function modeProduct(s: StepOf<'mode-product'>): RenderedStep {
   const split = s.shifts.length ? `${s.leading.text === '1' ? '' : `${s.leading.text} * `}${s.shifts.map((b) => (b.text === '0' ? 'n' : b.text.startsWith('-') ? `(n - ${b.text.slice(1)})` : `(n + ${b.text})`)).join(' * ')}` : s.leading.text;
   const uses = s.formulas.map((f) => ({
@@ -377,11 +389,13 @@ function modeProduct(s: StepOf<'mode-product'>): RenderedStep {
     linear: 'The factor is linear in n, so no multiplicative anomaly arises',
     'split-polynomial': 'No multiplicative anomaly: for a polynomial in n in one dimension the regularised product of P equals leading^zeta(0) times the product of the regularised products of its linear factors (the Hurwitz expansion of zeta_P(s) gives no extra term; confirmed numerically against the zeta function of P itself in the tests, e.g. for (n + 0.3)(n + 1.7) and n^2 + a^2). In higher dimensions, or for operators rather than sequences, such a splitting can carry a multiplicative anomaly',
     'all-integers': 'Over all integers the factor is linear in n and zeta(0) = 0, so a constant factor of the modes does not change the product and no multiplicative anomaly arises',
+    'factored-polynomial': 'No multiplicative anomaly: for polynomial factors the zeta-regularised product over n of prod_j (n + b_j) equals the product of the regularised products prod_j sqrt(2*pi)/Gamma(b_j) (S. Mizuno, generalised Lerch formulas), so the product of P is leading^zeta(0) times the products of its monic factors, with zeta(0) that of the whole sequence P(n) (not of any one factor: a constant c of every mode enters as c^zeta_P(0)); confirmed numerically against the zeta function of P itself in the tests',
+    'all-integers-even': 'Over all integers the modes split into m >= 0 and m = -n with n >= 1 (zeta(s) is the sum of the two halves), each half a product of polynomial factors without multiplicative anomaly (S. Mizuno); for even degree the modes point the same way as m -> +inf and m -> -inf, the leading coefficient enters with zeta(0) = 0, and each shift b gives sqrt(2*pi)/Gamma(b) * sqrt(2*pi)/Gamma(1 - b) = 2*sin(pi*b). Splitting P over all integers into factors of lower degree and multiplying their products over all integers is not the same in general (the multiplicative anomaly of first-order factors)',
     'all-integers-quadratic': 'Over all integers zeta(s) = q^-s + 2*zeta_{n>=1}(s) for P = c*(n^2 + q), so zeta(0) = 0 and P is not split. Warning, multiplicative anomaly: the regularised products of the linear factors n + x and n - x (x^2 = -q, Im x > 0) multiply to (1 - exp(2*pi*i*x))^2, which is this product times exp(2*pi*i*x), not this product; the product of the quadratic is the zeta-regularised determinant of the second-order operator (-d^2/dt^2 + y^2 on a circle of length 2*pi, periodic, for q = y^2), the product of the linear ones that of the two first-order operators',
   }[s.anomaly];
   const v = s.value ? ` ${complexApprox(s.value, 15)}` : '';
   return {
-    text: `P(n) = ${split}; by ${list(uses)}, ${s.name} = ${s.result.text}${v}, exactly. ${anomaly}.`,
+    text: `${s.factorisation ? factorisationText(s.factorisation, s.leading.text) : ''}P(n) = ${split}; by ${list(uses)}, ${s.name} = ${s.result.text}${v}, exactly. ${anomaly}.`,
     latex: `${s.name} = ${s.result.latex}`,
   };
 }
@@ -399,6 +413,48 @@ function functionalDeterminant(s: StepOf<'functional-determinant'>): RenderedSte
     : `${value}, by integrating y'' = V y with fourth-order Runge-Kutta, halving the step until two solves agree (${plural(s.ode?.steps ?? 0, 'step')}, relative difference ${approx(s.ode?.difference ?? 0, 3)}; numeric, not proved)`;
   return {
     text: `${s.name}: det(${op}) ${where} ${res}.`,
+    latex: `${s.name} = ${s.result?.latex ?? (s.value ? complexApproxLatex(s.value, 12) : '')}`,
+  };
+}
+
+/** The time-sliced determinant: the matrix, how its determinant was found, the branch of theta, the check. */
+function timeSlicing(s: StepOf<'time-slicing'>): RenderedStep {
+  const N = /^[\w.]+$/.test(s.slices.text) ? s.slices.text : `(${s.slices.text})`;
+  const L = /^[\w.]+$/.test(s.length.text) ? s.length.text : `(${s.length.text})`;
+  const V = s.potential.text;
+  const parts: string[] = [];
+  // eps = L/N, reduced when both are whole numbers (3/6 is written 1/2)
+  const gcd = (a: number, b: number): number => (b ? gcd(b, a % b) : a);
+  const eps = /^\d+$/.test(s.length.text) && /^\d+$/.test(s.slices.text)
+    ? (() => { const [a, b] = [Number(s.length.text), Number(s.slices.text)]; const g = gcd(a, b) || 1; return b / g === 1 ? `${a / g}` : `${a / g}/${b / g}`; })()
+    : `${L}/${N}`;
+  const diag = s.method === 'exact' ? '2 + eps^2*V' : '2 + eps^2*V(t_j)';
+  // the matrix's size: a number when N is one
+  const size = (k: number) => (/^\d+$/.test(s.slices.text) ? `${Number(s.slices.text) - k} x ${Number(s.slices.text) - k}` : k ? `(${N} - ${k}) x (${N} - ${k})` : `${N} x ${N}`);
+  if (s.shape === 'interval') {
+    parts.push(`${s.name}: -d^2/dt^2 + ${V} on [0, ${s.length.text}] with Dirichlet ends, cut into ${N} slices of eps = ${eps}: the sliced action sum_j ((x_(j+1) - x_j)^2/(2*eps) + eps*V*x_j^2/2) with x_0 = x_${N} = 0 is x^T M x/(2*eps), M the ${size(1)} tridiagonal matrix with ${diag} on the diagonal and -1 beside it`);
+    parts.push(s.method === 'exact'
+      ? `its determinant by the recursion D_n = (2 + eps^2*V)*D_(n-1) - D_(n-2), D_0 = 1, D_(-1) = 0, whose characteristic roots are exp(+-theta) with cosh(theta) = 1 + eps^2*V/2, so D_n = sinh((n + 1)*theta)/sinh(theta); at V = 0, D_(${N}-1) = ${N}, and the ratio det M(V)/det M(0) = sinh(${N}*theta)/(${N}*sinh(theta)) is the sliced counterpart of det(-d^2 + V)/det(-d^2)`
+      : `t_j = j*eps, its determinant by elimination, divided by det M(0) = ${N}`);
+  } else {
+    const corner = s.conditions === 'periodic' ? '-1' : '+1';
+    parts.push(`${s.name}: -d^2/dt^2 + ${V} on a circle of length ${s.length.text}, ${s.conditions}, cut into ${N} slices of eps = ${eps}: M is the ${size(0)} circulant with ${diag} on the diagonal, -1 beside it and ${corner} in the corners (x_(j+${N}) = ${s.conditions === 'periodic' ? 'x_j' : '-x_j'})`);
+    parts.push(s.zeroMode
+      ? `at V = 0 its eigenvalues are 4*sin(pi*k/${N})^2, k = 0, ..., ${N} - 1, and k = 0 (the constant) is a zero mode; removed, det' = prod over k = 1..${N}-1 of 4*sin(pi*k/${N})^2 = ${N}^2 (the functional det' = beta^2 of a circle of length beta normalises the removed mode differently, so the two are not compared)`
+      : s.method === 'exact'
+      ? `its eigenvalues are 2 + eps^2*V - 2*cos(2*pi*k/${N}) = 4*sinh(theta/2)^2 + 4*sin(pi*k/${N})^2, k = ${s.conditions === 'periodic' ? '0' : '1/2'}, ..., ${s.conditions === 'periodic' ? `${N} - 1` : `${N} - 1/2`}, with cosh(theta) = 1 + eps^2*V/2, and their product is ${s.conditions === 'periodic' ? '2*cosh(N*theta) - 2 = 4*sinh(N*theta/2)^2' : '2*cosh(N*theta) + 2 = 4*cosh(N*theta/2)^2'}`
+      : `t_j = j*eps, its determinant by elimination`);
+  }
+  if (s.theta && s.thetaBranch) {
+    parts.push(s.thetaBranch === 'real'
+      ? `Choice: theta = ${s.theta.text} (sinh(theta/2) = eps*sqrt(V)/2), real and >= 0 since V >= 0 on the whole domain`
+      : `Choice: theta = ${s.theta.text} (sinh(theta/2) = eps*sqrt(V)/2) with principal asinh and sqrt; V may be negative or complex here, but the result is a polynomial in cosh(theta) (Chebyshev), so every theta with cosh(theta) = 1 + eps^2*V/2 gives the same value and no branch enters the result`);
+  }
+  const v = s.value ? ` ${complexApprox(s.value, 15)}` : '';
+  parts.push(s.result ? `${s.name} = ${s.result.text}${v}${s.method === 'exact' ? ', exactly' : ''}` : `${s.name}${v} (numeric, not proved)`);
+  if (s.checks) parts.push(`checked against ${s.zeroMode ? 'N times a cofactor of the explicit matrix (matrix-tree theorem) by LU elimination' : 'the determinant of the explicit matrix by LU elimination'} at ${plural(s.checks.slices.length, 'slice count')} (${s.checks.slices.join(', ')}) and ${plural(s.checks.points, 'point')}: worst relative difference ${approx(s.checks.worst, 3)}`);
+  return {
+    text: `${parts.join('; ')}.`,
     latex: `${s.name} = ${s.result?.latex ?? (s.value ? complexApproxLatex(s.value, 12) : '')}`,
   };
 }
@@ -444,20 +500,58 @@ function limit(s: StepOf<'limit'>): RenderedStep {
         none: '',
       };
       const corr = s.correction ? `; next correction ${s.correction.formula ? s.correction.formula.text : `like ${s.param}^(${digits(s.correction.power, 4)})`}` : '';
-      const cterm = (s.constantTerm ? `; the constant term is ${complexApprox(s.constantTerm, 10)}` : '') + (s.rate ? `; it is approached like ${s.rate.text}` : '');
+      const cterm = (s.constantTerm ? `; the constant term is ${complexApprox(s.constantTerm, 10)}` : '') + (s.rate ? `; it is approached like ${s.rate.text}` : '')
+        + (s.remainder ? `; the rest is exponentially small, O(${s.remainder.order.text})${s.remainder.bound ? `, at most ${s.remainder.bound.text} in absolute value once each of its terms is below 1/2` : ''}` : '');
       return {
         text: `As ${arrow}, ${s.name} ${sym} ${f?.text ?? complexApprox(s.value ?? { re: NaN, im: NaN }, 10)}, by ${method[s.method]}${checks}${corr}${cterm}.`,
-        latex: `${lhs} ${f?.latex ?? ''}`,
+        latex: `${lhs} ${f?.latex ?? ''}${s.remainder ? ` + O\\left(${s.remainder.order.latex}\\right)` : ''}`,
       };
     }
   }
 }
 
+function poissonResummation(s: StepOf<'poisson-resummation'>): RenderedStep {
+  const g = s.constant ? ` times exp(${s.constant.text})` : '';
+  const re = s.realPart.kind === 'proved' ? 'Re a > 0 on the whole declared domain (proved)' : `Re a > 0 (${basisText(s.realPart)})`;
+  const v = s.value ? ` ${complexApprox(s.value, 15)}` : '';
+  return {
+    text: `The sum over all integers ${s.index} of ${s.term.text} is sum_${s.index} exp(-pi*a*${s.index}^2 + 2*pi*i*b*${s.index})${g} with a = ${s.a.text}, b = ${s.b.text}; ${re}, so it converges absolutely. Poisson resummation: sum_n exp(-pi*a*n^2 + 2*pi*i*b*n) = a^(-1/2) * sum_m exp(-pi*(m - b)^2/a). Branch: a^(-1/2) is the principal root, because both sides are analytic in a on Re a > 0, the principal root is continuous there (Re a > 0 keeps a off the negative real axis), and they agree for real a > 0 (the Fourier transform of a Gaussian).${v ? ` Value${v}.` : ''}`,
+    latex: `\\sum_{${s.index}\\in\\mathbb{Z}} e^{-\\pi a ${s.index}^2 + 2\\pi i b ${s.index}} = a^{-1/2} \\sum_{m\\in\\mathbb{Z}} e^{-\\pi (m - b)^2/a},\\quad a = ${s.a.latex},\\ b = ${s.b.latex}`,
+  };
+}
+
+function smallParameterForm(s: StepOf<'small-parameter-form'>): RenderedStep {
+  const m0 = s.nearest === null ? 'm0 the integer nearest Re b - Im b*Im(1/a)/Re(1/a) (where |exp(-pi*(m - b)^2/a)| peaks)' : `m0 = ${s.nearest}`;
+  const symbols = `s = Re(1/a)${s.bound.text.includes('y') ? ', y = Im b, r = |1/a|' : ''}`;
+  const bv = s.boundValue !== null ? ` (here ${approx(s.boundValue, 6)})` : '';
+  return {
+    text: `For small a (Re(1/a) large): ${s.name} = ${s.leading.text} + R*exp(g)*a^(-1/2), the leading term of the resummed side (${m0}, g the n-free part of the exponent); the other terms m != m0 make up R, |R| <= ${s.bound.text}, ${symbols}${bv}, from the distance of every other m to the peak, summed as a geometric series on each side. The remainder is exponentially small in 1/a: beyond all orders of any power of a.`,
+    latex: `${s.name} \\approx ${s.leading.latex},\\quad |R| \\le ${s.bound.latex}`,
+  };
+}
+
+function modular(s: StepOf<'modular'>): RenderedStep {
+  const what = s.of === 'eta'
+    ? `eta(tau) = (-i*tau)^(-1/2) * eta(-1/tau) at tau = ${s.argument.text} (modular transformation; -1/tau = ${s.dual.text}). Branch: (-i*tau)^(-1/2) is the principal root, because Re(-i*tau) = Im tau > 0, and both sides are analytic on the upper half plane and agree on the imaginary axis; eta(-1/tau) = exp(2*pi*i*(-1/tau)/24) * prod (1 - q'^n), q' = exp(2*pi*i*(-1/tau)), and |prod - 1| <= 4*|q'| once |q'| <= 1/4`
+    : `the sum ${s.label} by Poisson resummation at a = ${s.argument.text} (1/a = ${s.dual.text}): its m = 0 term, with the other terms bounded by 4*exp(-pi*Re(1/a)) relative once exp(-2*pi*Re(1/a)) <= 1/2`;
+  return {
+    text: `In the expansion, ${what}: ${s.label} = ${s.leading.text} * (1 + delta) with |delta| <= ${s.bound.text}, beyond all orders.`,
+    latex: `${s.of === 'eta' ? '\\eta' : s.label} = ${s.leading.latex}\\,(1 + \\delta),\\quad |\\delta| \\le ${s.bound.latex}`,
+  };
+}
+
+function seriesCheck(s: StepOf<'series-check'>): RenderedStep {
+  return {
+    text: `Checked${Object.keys(s.at).length ? ` at ${pointText(s.at)}` : ''} from the definitions (partial sums and products, no resummation or modular transformation; ${plural(s.terms, 'term')}, the last of size ${approx(s.lastTerm, 2)}): ${complexApprox(s.value, 12)} against the closed form ${complexApprox(s.closed, 12)}, relative difference ${approx(s.relativeDifference, 3)}, ${s.agrees ? 'within' : 'NOT within'} the tolerance ${approx(s.tolerance, 2)}.`,
+    latex: `${s.name} ${complexApproxLatex(s.value, 12)}\\ ${tex(s.agrees ? 'agrees' : 'disagrees')}`,
+  };
+}
+
 export function renderStep(step: Step): RenderedStep {
   switch (step.kind) {
     case 'param': return {
-      text: `${list(step.names)} ${step.names.length > 1 ? 'are each' : 'is'} ${DOMAIN_HELP[step.domain]}.`,
-      latex: `${step.names.join(', ')} \\in ${{ positive: '(0, \\infty)', negative: '(-\\infty, 0)', real: '\\mathbb{R}', complex: '\\mathbb{C}', nonzero: '\\mathbb{R} \\setminus \\{0\\}' }[step.domain]}`,
+      text: `${list(step.names)} ${step.names.length > 1 ? 'are each' : 'is'} ${step.integer ? 'a positive integer (1, 2, 3, ...)' : DOMAIN_HELP[step.domain]}.`,
+      latex: `${step.names.join(', ')} \\in ${{ positive: '(0, \\infty)', negative: '(-\\infty, 0)', real: '\\mathbb{R}', complex: '\\mathbb{C}', nonzero: '\\mathbb{R} \\setminus \\{0\\}', integer: '\\{1, 2, 3, \\ldots\\}' }[step.integer ? 'integer' : step.domain]}`,
     };
     case 'note': return { text: step.text, latex: '' };
     case 'quadratic-form': {
@@ -497,5 +591,10 @@ export function renderStep(step: Step): RenderedStep {
     case 'regularisation': return regularisation(step);
     case 'mode-product': return modeProduct(step);
     case 'functional-determinant': return functionalDeterminant(step);
+    case 'time-slicing': return timeSlicing(step);
+    case 'poisson-resummation': return poissonResummation(step);
+    case 'small-parameter-form': return smallParameterForm(step);
+    case 'modular': return modular(step);
+    case 'series-check': return seriesCheck(step);
   }
 }

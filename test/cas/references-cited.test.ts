@@ -29,6 +29,7 @@ const SOURCES: { cited: RegExp; entry: string }[] = [
   { cited: /\bLerch\b/, entry: 'Lerch' },
   { cited: /Gel'?fand|\bYaglom\b/, entry: "I. M. Gel'fand & A. M. Yaglom" },
   { cited: /\bDunne\b/, entry: 'G. V. Dunne' },
+  { cited: /\bApostol\b/, entry: 'T. M. Apostol' },
   { cited: /\bKirsten\b|\bMcKane\b/, entry: 'K. Kirsten, A. J. McKane' },
   { cited: /\bFendley\b|\bNayak\b/, entry: 'P. Fendley' },
   { cited: /\bWimmer\b/, entry: 'M. Wimmer' },

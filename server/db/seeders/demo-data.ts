@@ -95,4 +95,35 @@ integral S = exp(-m*x^2/2 - mu*pb*p) d(x) d(pb, p : grassmann)
 limit S : m -> inf
 `,
   },
+  {
+    title: 'A bead on a stretched string: slices, modes and the determinant',
+    source: `# A bead of unit mass pinned at both ends of a time interval L in a harmonic well w^2.
+# Three definitions of det(-d^2/dt^2 + w^2)/det(-d^2/dt^2) side by side: the time-sliced
+# Gaussian (eps = L/N, action sum (x_(j+1) - x_j)^2/(2*eps) + eps*w^2*x_j^2/2, x_0 = x_N = 0),
+# the functional determinant (Gel'fand-Yaglom) and the product over the string's modes.
+param w, L : positive
+param N : positive integer
+# Six slices of a string of length 3 (eps = 1/2), written out: five intermediate positions.
+# int exp(-S) d^5x = (2*pi)^(5/2)*det(M/eps)^(-1/2) and det(M/eps) = 2^5*D_5, D_5 = 6 at w = 0.
+integral Z6 = exp(-(x1^2 + (x2 - x1)^2 + (x3 - x2)^2 + (x4 - x3)^2 + (x5 - x4)^2 + x5^2) - w^2*(x1^2 + x2^2 + x3^2 + x4^2 + x5^2)/4) d(x1, x2, x3, x4, x5)
+let R6 = (2*pi)^5/(192*Z6^2)
+sliced S6 = w^2 on interval 3 with 6 slices
+compare R6 with S6
+# Any number of slices, and the continuum limit with its 1/N^2 correction.
+sliced S = w^2 on interval L with N slices
+limit S : N -> inf
+determinant D = w^2 on interval L
+expect D = sinh(w*L)/(w*L)
+# The string's modes sin(n*pi*t/L), eigenvalues n^2*pi^2/L^2 + w^2, zeta-regularised.
+product P = n^2*pi^2/L^2 + w^2 over n >= 1
+product P0 = n^2*pi^2/L^2 over n >= 1
+let Rmodes = P/P0
+compare Rmodes with D
+# Closed into a ring of length L: the circulant and the periodic determinant.
+sliced Ring = w^2 on circle L periodic with N slices
+limit Ring : N -> inf
+determinant DRing = w^2 on circle L periodic
+expect DRing = 4*sinh(w*L/2)^2
+`,
+  },
 ];

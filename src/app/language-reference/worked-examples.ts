@@ -18,6 +18,8 @@ const PRELUDE: Record<StatementKeyword, string[]> = {
   derivative: ['param beta : positive', 'integral Z = exp(-beta*x^2/2) d(x)'],
   product: ['param a : positive'],
   determinant: ['param w, L : positive'],
+  sliced: ['param w, L : positive', 'param N : positive integer'],
+  sum: ['param a : positive', 'param b : real'],
   note: [],
 };
 

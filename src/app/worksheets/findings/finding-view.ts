@@ -26,6 +26,8 @@ const KIND_WORDS: Record<StatementReport['kind'], string> = {
   derivative: 'Derivative',
   product: 'Mode product',
   determinant: 'Functional determinant',
+  sliced: 'Time-sliced determinant',
+  sum: 'Gaussian sum',
   invalid: 'Not understood',
 };
 
