@@ -367,6 +367,21 @@ export const step = z.discriminatedUnion('kind', [
     bound: formula,
   }),
   z.object({
+    /** verify on a functional determinant: y'' = V y solved by Runge-Kutta, against the closed form. */
+    kind: z.literal('ode-check'),
+    name: z.string(),
+    at: pointValues,
+    conditions: z.enum(['dirichlet', 'periodic', 'antiperiodic']),
+    value: complexValue,
+    closed: complexValue,
+    /** Runge-Kutta steps of the accepted solve, and its relative difference from the solve with half as many. */
+    steps: z.number(),
+    stepDifference: z.number(),
+    relativeDifference: z.number(),
+    tolerance: z.number(),
+    agrees: z.boolean(),
+  }),
+  z.object({
     /**
      * verify of a Gaussian sum, or of a derived quantity built from sums and eta: the definitions
      * summed and multiplied term by term (no Poisson resummation, no modular transformation) until

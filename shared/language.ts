@@ -18,7 +18,7 @@ export const STATEMENTS = {
   rotate: { form: 'rotate NAME : VAR -> FACTOR*VAR, ... as NEW', example: 'rotate Z : x -> exp(-i*pi/4)*x as ZR', help: 'Turn the contour of a variable; the rotation is checked.' },
   continue: { form: 'continue NAME : PARAM along P0 -> P1 -> ... [at NAME = VALUE, ...]', example: 'continue Z : lam along 0 -> 2*i', help: 'Follow a result along a path in a parameter, recording branch points and cuts.' },
   compare: { form: 'compare NAME with NAME', example: 'compare ZL with Z', help: 'The ratio of two results, its phase and a verdict.' },
-  verify: { form: 'verify NAME [at NAME = VALUE, ...] [with tolerance T]', example: 'verify Z at k = 2', help: 'Check a result by numerical quadrature along its contour.' },
+  verify: { form: 'verify NAME [at NAME = VALUE, ...] [with tolerance T]', example: 'verify Z at k = 2', help: 'Check a result by code that shares nothing with its closed form: an integral by quadrature along its contour, a sum or eta by partial sums and products, a functional determinant by solving y\'\' = V y.' },
   limit: { form: 'limit NAME : PARAM -> VALUE | inf | -inf', example: 'limit Z : k -> inf', help: 'The limit or leading behaviour of a result.' },
   moment: { form: 'moment NAME = POLYNOMIAL under RESULT', example: 'moment X2 = x^2 under Z', help: 'The Gaussian average of a polynomial in the variables of an integral, by Wick contractions.' },
   derivative: { form: 'derivative NAME = EXPR by PARAM', example: 'derivative E = -log(Z) by beta', help: 'The exact derivative of a quantity built from results and parameters.' },

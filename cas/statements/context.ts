@@ -39,6 +39,8 @@ export interface ResultInfo {
   berezin?: { vars: string[]; A: RatFunc[][] };
   /** A Gaussian sum over the integers (sum statement): the term exp(-pi*a*n^2 + 2*pi*i*b*n + g), exactly; the expansion engine and verify read it. */
   lattice?: LatticeInfo;
+  /** A functional determinant: its operator and conditions, for verify's independent ODE solve. */
+  determinant?: { potential: Expr; length: Expr; conditions: 'dirichlet' | 'periodic' | 'antiperiodic'; zeroMode: boolean; byOde: boolean };
 }
 
 /** A result that has a value function: what resultNamed hands to the statements that use one. */

@@ -99,6 +99,9 @@ export function evaluateDeterminant(s: Extract<Statement, { kind: 'determinant' 
     if (!result) return value;
     try { const z = evaluate(result, new Map(pt)); return Number.isFinite(z.re) && Number.isFinite(z.im) ? { re: z.re, im: z.im } : null; } catch { return null; }
   };
-  ctx.results.set(name, { line, unavailable: null, expr: result, params, valueAt, ...(result ? { definition: result } : {}) });
+  ctx.results.set(name, {
+    line, unavailable: null, expr: result, params, valueAt, ...(result ? { definition: result } : {}),
+    determinant: { potential: s.potential, length: L, conditions: s.conditions, zeroMode: zeroMode !== null, byOde: dependsOnT },
+  });
   return report;
 }

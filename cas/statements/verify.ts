@@ -17,6 +17,7 @@ import { complexApprox, complexApproxLatex } from '../../shared/record/numbers.j
 import { blankReport, StatementFailure, type Context } from './context.js';
 import { angleFormula, bindPoint, rel, resultNamed, unitLine } from './shared.js';
 import { isSeriesTarget, verifySeries } from './verifySeries.js';
+import { verifyDeterminant } from './verifyDeterminant.js';
 
 export const DEFAULT_TOLERANCE = 1e-8;
 /** The quadrature's own time budget (below the statement's limit, so that hitting it is reported, not fatal). */
@@ -98,7 +99,9 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
   const result = resultNamed(ctx, s.target, line, 'check');
   const g = result.gaussian;
   const series = isSeriesTarget(result, ctx);
-  if (!g && !series) throw new StatementFailure(`${name} is a derived quantity, not an integral; verify checks integrals and rotated results.`, line, s.target.span.start.column);
+  if (!g && !series && !result.determinant) {
+    throw new StatementFailure(`${name} is not something verify can recompute independently: it checks integrals and rotated results by quadrature, sums and eta by partial sums and products, and functional determinants by solving y'' = V y. (A zeta-regularised product is defined by continuation, with no convergent partial products to compare; a sliced determinant is checked against its explicit matrix in its own record.)`, line, s.target.span.start.column);
+  }
   const p = bindPoint(ctx, s.at, line);
   const missing = result.params.filter((x) => !p.has(x));
   if (missing.length) throw new StatementFailure(`${name} depends on ${missing.join(', ')}; give ${missing.length > 1 ? 'them values' : 'it a value'} with at ${missing.map((m) => `${m} = ...`).join(', ')}.`, line, s.span.start.column);
@@ -109,6 +112,8 @@ export function evaluateVerify(s: Extract<Statement, { kind: 'verify' }>, ctx: C
     if (!(t.im === 0 && t.re > 0 && t.re < 1)) throw new StatementFailure('The tolerance must be a number between 0 and 1.', line, s.span.start.column);
     tolerance = t.re;
   }
+  // functional determinants: the initial-value problem (verifyDeterminant.ts)
+  if (!g && result.determinant) return verifyDeterminant(name, result, p, tolerance, line, s.span.start.column, report);
   // sums and eta: partial sums and products against the closed-form side (verifySeries.ts)
   if (!g) return verifySeries(name, result, p, tolerance, line, s.span.start.column, ctx, report);
   const n = g.vars.length;

@@ -540,6 +540,14 @@ function modular(s: StepOf<'modular'>): RenderedStep {
   };
 }
 
+function odeCheck(s: StepOf<'ode-check'>): RenderedStep {
+  const what = s.conditions === 'dirichlet' ? "y2(L)/L with y2(0) = 0, y2'(0) = 1 (Gel'fand-Yaglom)" : `tr M ${s.conditions === 'periodic' ? '- 2' : '+ 2'} from the monodromy matrix M over one turn`;
+  return {
+    text: `Checked${Object.keys(s.at).length ? ` at ${pointText(s.at)}` : ''} by solving y'' = V(t) y with fourth-order Runge-Kutta (${plural(s.steps, 'step')}; ${approx(s.stepDifference, 2)} from the solve with half as many), independently of the closed form: ${what} ${complexApprox(s.value, 12)} against the closed form ${complexApprox(s.closed, 12)}, relative difference ${approx(s.relativeDifference, 3)}, ${s.agrees ? 'within' : 'NOT within'} the tolerance ${approx(s.tolerance, 2)}.`,
+    latex: `${s.name} ${complexApproxLatex(s.value, 12)}\\ ${tex(s.agrees ? 'agrees' : 'disagrees')}`,
+  };
+}
+
 function seriesCheck(s: StepOf<'series-check'>): RenderedStep {
   return {
     text: `Checked${Object.keys(s.at).length ? ` at ${pointText(s.at)}` : ''} from the definitions (partial sums and products, no resummation or modular transformation; ${plural(s.terms, 'term')}, the last of size ${approx(s.lastTerm, 2)}): ${complexApprox(s.value, 12)} against the closed form ${complexApprox(s.closed, 12)}, relative difference ${approx(s.relativeDifference, 3)}, ${s.agrees ? 'within' : 'NOT within'} the tolerance ${approx(s.tolerance, 2)}.`,
@@ -596,5 +604,6 @@ export function renderStep(step: Step): RenderedStep {
     case 'small-parameter-form': return smallParameterForm(step);
     case 'modular': return modular(step);
     case 'series-check': return seriesCheck(step);
+    case 'ode-check': return odeCheck(step);
   }
 }
