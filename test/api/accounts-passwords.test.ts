@@ -4,6 +4,7 @@
 // ends every other reset link and the account's lock.
 import assert from 'node:assert/strict';
 import { after, before, describe, test } from 'node:test';
+import { createHmac } from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import { QueryTypes } from 'sequelize';
 import { LIMITS } from '../../shared/api.js';
@@ -107,21 +108,29 @@ describe('no silent cut at 72 bytes (finding 11)', () => {
     const password = 'the quick brown fox jumps over the lazy dog, then naps in the warm autumn sun ok';
     assert.equal(password.length, 80);
     assert.equal((await register('long.password@lab.test', password)).status, 201);
-    assert.match(await hashOf('long.password@lab.test'), /^sw2\$\$2[aby]\$/);
+    assert.match(await hashOf('long.password@lab.test'), /^sw3\$32768\$8\$1\$/);
     const other = password.slice(0, 72) + 'DIFFERENT';
     assert.equal((await new ApiClient(server.url).post('/api/auth/login', { email: 'long.password@lab.test', password: other })).status, 401);
     await new ApiClient(server.url).login('long.password@lab.test', password);
   });
 
-  test('a hash of the old format still signs in and is upgraded', async () => {
-    const legacy = bcrypt.hashSync('an-old-style-password', 10);
-    await server.running.sequelize.query(`INSERT INTO users (email, display_name, password_hash, created_at, updated_at) VALUES ('legacy@lab.test', 'Legacy', $1, now(), now())`, { bind: [legacy] });
-    await new ApiClient(server.url).login('legacy@lab.test', 'an-old-style-password');
-    const upgraded = await hashOf('legacy@lab.test');
-    assert.match(upgraded, /^sw2\$/);
-    await new ApiClient(server.url).login('legacy@lab.test', 'an-old-style-password');
-    assert.equal((await new ApiClient(server.url).post('/api/auth/login', { email: 'legacy@lab.test', password: 'an-old-style-passwort' })).status, 401);
-  });
+  // The two earlier formats: bcrypt over the password, and bcrypt over its base64 HMAC-SHA-256
+  // with the fixed key below (written out here as the format's definition).
+  const earlierFormats: [string, (password: string) => string][] = [
+    ['bare bcrypt', (password) => bcrypt.hashSync(password, 10)],
+    ['bcrypt over the HMAC pre-hash', (password) => `sw2$${bcrypt.hashSync(createHmac('sha256', 'sheetwise-password-prehash-v2').update(password, 'utf8').digest('base64'), 10)}`],
+  ];
+  for (const [name, make] of earlierFormats) {
+    test(`a hash of an earlier format (${name}) still signs in and is upgraded to scrypt`, async () => {
+      const email = `legacy.${name.toLowerCase().replace(/\W+/g, '-')}@lab.test`;
+      await server.running.sequelize.query(`INSERT INTO users (email, display_name, password_hash, created_at, updated_at) VALUES ($1, 'Legacy', $2, now(), now())`, { bind: [email, make('an-old-style-password')] });
+      assert.equal((await new ApiClient(server.url).post('/api/auth/login', { email, password: 'an-old-style-passwort' })).status, 401);
+      await new ApiClient(server.url).login(email, 'an-old-style-password');
+      assert.match(await hashOf(email), /^sw3\$32768\$8\$1\$/);
+      await new ApiClient(server.url).login(email, 'an-old-style-password');
+      assert.equal((await new ApiClient(server.url).post('/api/auth/login', { email, password: 'an-old-style-passwort' })).status, 401);
+    });
+  }
 });
 
 describe('password reset (findings 10 and 12)', () => {
