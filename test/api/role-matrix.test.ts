@@ -11,6 +11,8 @@ interface Fixture {
   groupId: number;
   worksheetId: number;
   ids: Record<string, number>;
+  /** What a case's setup made (a link, an invitation, a file), by name. */
+  made: Record<string, number>;
 }
 
 interface Case {
@@ -18,6 +20,8 @@ interface Case {
   method: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
   path: (f: Fixture) => string;
   body?: (f: Fixture) => unknown;
+  /** Made by the owner before the request, through the API. */
+  setup?: (f: Fixture) => Promise<void>;
   expect: Record<Who, number>;
 }
 
@@ -64,8 +68,55 @@ const CASES: Case[] = [
   { name: 'GET referee links', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/referee-links`, expect: authors(200) },
   { name: 'POST referee link', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/referee-links`, body: () => ({ days: 7 }), expect: authors(201) },
   { name: 'GET activity', method: 'GET', path: (f) => `/api/groups/${f.groupId}/activity`, expect: read },
+  { name: 'GET head', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/head`, expect: read },
+  { name: 'GET draft', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/draft`, expect: authors(200) },
+  { name: 'PUT draft', method: 'PUT', path: (f) => `/api/worksheets/${f.worksheetId}/draft`, body: () => ({ title: 'Matrix sheet', source: 'note "draft"', baseVersion: 1 }), expect: authors(200) },
+  { name: 'DELETE draft', method: 'DELETE', path: (f) => `/api/worksheets/${f.worksheetId}/draft`, expect: authors(204) },
+  { name: 'GET milestone check', method: 'GET', path: (f) => `/api/worksheets/${f.worksheetId}/versions/1/milestone`, expect: read },
+  // The fixture's version has no results, so an author is told there is nothing to sign off.
+  { name: 'POST milestone', method: 'POST', path: (f) => `/api/worksheets/${f.worksheetId}/versions/1/milestone`, expect: authors(409) },
+  { name: 'GET review queue count', method: 'GET', path: () => '/api/review-queue/count', expect: { anon: 401, outsider: 200, admin: 200, reader: 200, reviewer: 200, author: 200, owner: 200 } },
+  {
+    name: 'DELETE referee link',
+    method: 'DELETE',
+    setup: async (f) => {
+      const res = await clients.get('owner')!.post(`/api/worksheets/${f.worksheetId}/referee-links`, { days: 7 });
+      assert.equal(res.status, 201, res.text);
+      f.made['link'] = res.json.link.id;
+    },
+    path: (f) => `/api/worksheets/${f.worksheetId}/referee-links/${f.made['link']}`,
+    expect: authors(204),
+  },
+  {
+    name: 'DELETE invitation',
+    method: 'DELETE',
+    setup: async (f) => {
+      const res = await clients.get('owner')!.post(`/api/groups/${f.groupId}/invitations`, { email: 'revoked@matrix.test', role: 'reader' });
+      assert.equal(res.status, 201, res.text);
+      f.made['invitation'] = res.json.invitation.id;
+    },
+    path: (f) => `/api/groups/${f.groupId}/invitations/${f.made['invitation']}`,
+    expect: ownerOnly(204),
+  },
+  // Only the reviewer a review was asked of gives its verdict; readers follow the thread without writing in it.
+  { name: 'POST review verdict', method: 'POST', setup: askReview, path: (f) => `/api/reviews/${f.made['review']}/verdict`, body: () => ({ verdict: 'confirmed', comment: '' }), expect: { anon: 401, outsider: 404, admin: 404, reader: 403, reviewer: 200, author: 403, owner: 403 } },
+  { name: 'POST review comment', method: 'POST', setup: askReview, path: (f) => `/api/reviews/${f.made['review']}/comments`, body: () => ({ body: 'Checked the sign of the coupling.' }), expect: { anon: 401, outsider: 404, admin: 404, reader: 403, reviewer: 201, author: 201, owner: 201 } },
+  { name: 'GET attachment', method: 'GET', setup: attachFile, path: (f) => `/api/worksheets/${f.worksheetId}/attachments/${f.made['attachment']}`, expect: read },
+  { name: 'DELETE attachment', method: 'DELETE', setup: attachFile, path: (f) => `/api/worksheets/${f.worksheetId}/attachments/${f.made['attachment']}`, expect: authors(204) },
   { name: 'POST /api/evaluate', method: 'POST', path: () => '/api/evaluate', body: () => ({ source: '# nothing' }), expect: { anon: 401, outsider: 200, admin: 200, reader: 200, reviewer: 200, author: 200, owner: 200 } },
 ];
+
+async function attachFile(f: Fixture): Promise<void> {
+  const res = await clients.get('owner')!.upload(`/api/worksheets/${f.worksheetId}/attachments`, 'table.csv', 'a,b\n1,2\n');
+  assert.equal(res.status, 201, res.text);
+  f.made['attachment'] = res.json.attachment.id;
+}
+
+async function askReview(f: Fixture): Promise<void> {
+  const res = await clients.get('owner')!.post(`/api/worksheets/${f.worksheetId}/reviews`, { statementKey: 'k', reviewerIds: [f.ids['reviewer']] });
+  assert.equal(res.status, 201, res.text);
+  f.made['review'] = res.json.reviews[0].id;
+}
 
 let server: TestServer;
 const clients = new Map<Who, ApiClient>();
@@ -102,7 +153,7 @@ async function freshFixture(): Promise<Fixture> {
   }
   const sheet = await owner.post(`/api/groups/${groupId}/worksheets`, { title: 'Matrix sheet', source: 'param k : positive\nnote "v1"' });
   assert.equal(sheet.status, 201);
-  return { groupId, worksheetId: sheet.json.worksheet.id, ids };
+  return { groupId, worksheetId: sheet.json.worksheet.id, ids, made: {} };
 }
 
 describe('role matrix', () => {
@@ -110,6 +161,7 @@ describe('role matrix', () => {
     for (const who of EVERYONE) {
       test(`${c.name} as ${who} → ${c.expect[who]}`, async () => {
         const fixture = await freshFixture();
+        await c.setup?.(fixture);
         const res = await clients.get(who)!.request(c.method, c.path(fixture), c.body?.(fixture));
         assert.equal(res.status, c.expect[who], `${c.method} ${c.path(fixture)} as ${who}: ${res.text}`);
         if (res.status >= 400) {
