@@ -306,6 +306,8 @@ export const step = z.discriminatedUnion('kind', [
     /** product NAME = P over modes: the factorisation into linear factors and the closed form. */
     kind: z.literal('mode-product'),
     name: z.string(),
+    /** The mode index as written (n when absent: records made before it was stored). */
+    index: z.string().optional(),
     leading: formula,
     /** The exact roots shifted: P(n) = leading * prod (n + b_j). */
     shifts: z.array(formula),

@@ -43,6 +43,8 @@ export const DOMAIN_HELP: Record<Domain, string> = {
   complex: 'a complex number',
   nonzero: 'a nonzero real number',
 };
+/** The one domain of two words: a count (a number of slices), integer as well as positive. */
+export const COUNT_DOMAIN = { label: 'positive integer', help: 'a positive integer, a count such as a number of slices' } as const;
 
 /** Functions of one argument, principal branches throughout. */
 export const FUNCTIONS = {

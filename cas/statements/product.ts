@@ -411,7 +411,7 @@ export function evaluateProduct(s: Extract<Statement, { kind: 'product' }>, ctx:
     zetaAtZero: formulaOf(ratExpr(zeta0, true)), branch, ...(decided ? { decided } : {}),
   });
   report.steps.push({
-    kind: 'mode-product', name, leading: formulaOf(ratExpr(leading, true)), shifts: shifts.map((b) => formulaOf(b)),
+    kind: 'mode-product', name, index: n, leading: formulaOf(ratExpr(leading, true)), shifts: shifts.map((b) => formulaOf(b)),
     result: formulaOf(result), value, anomaly, formulas,
     ...(factorisation ? { factorisation: { factors: factorisation.factors.map((f) => ({ factor: formulaOf(f.factor), power: f.power })), repeated: factorisation.repeated } } : {}),
   });

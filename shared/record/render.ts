@@ -372,30 +372,31 @@ function regularisation(s: StepOf<'regularisation'>): RenderedStep {
   };
 }
 
-function factorisationText(f: NonNullable<StepOf<'mode-product'>['factorisation']>, leading: string): string {
+function factorisationText(f: NonNullable<StepOf<'mode-product'>['factorisation']>, leading: string, n: string): string {
   const parts = f.factors.map((x) => `(${x.factor.text})${x.power > 1 ? `^${x.power}` : ''}`).join(' * ');
-  const how = `${f.repeated ? 'repeated factors by the square-free decomposition (gcd of P and dP/dn), ' : ''}factors of degree 1 and 2 found from numerical roots followed through the parameters and each confirmed by exact division, the product checked identically`;
-  return `The closed forms are for factors of degree 1 and 2, so P is factored exactly over the rational functions of the parameters, P(n) = ${leading === '1' ? '' : `${leading} * `}${parts} (${how}). `;
+  const how = `${f.repeated ? 'repeated factors by the square-free decomposition (gcd of P and dP/d${n}), ' : ''}factors of degree 1 and 2 found from numerical roots followed through the parameters and each confirmed by exact division, the product checked identically`;
+  return `The closed forms are for factors of degree 1 and 2, so P is factored exactly over the rational functions of the parameters, P(${n}) = ${leading === '1' ? '' : `${leading} * `}${parts} (${how}). `;
 }
 
 function modeProduct(s: StepOf<'mode-product'>): RenderedStep {
-  const split = s.shifts.length ? `${s.leading.text === '1' ? '' : `${s.leading.text} * `}${s.shifts.map((b) => (b.text === '0' ? 'n' : b.text.startsWith('-') ? `(n - ${b.text.slice(1)})` : `(n + ${b.text})`)).join(' * ')}` : s.leading.text;
+  const n = s.index ?? 'n';
+  const split = s.shifts.length ? `${s.leading.text === '1' ? '' : `${s.leading.text} * `}${s.shifts.map((b) => (b.text === '0' ? n : b.text.startsWith('-') ? `(${n} - ${b.text.slice(1)})` : `(${n} + ${b.text})`)).join(' * ')}` : s.leading.text;
   const uses = s.formulas.map((f) => ({
     lerch: 'Lerch\'s formula prod over n >= 0 of (n + b) = sqrt(2*pi)/Gamma(b)',
     reflection: 'the reflection formula Gamma(1 + x)*Gamma(1 - x) = pi*x/sin(pi*x)',
     'all-integers': 'zeta(s) = zeta(s, u) + exp(-+i*pi*s)*zeta(s, 1 - u) (Hurwitz) with zeta(0, a) = 1/2 - a and zeta\'(0, a) = log(Gamma(a)/sqrt(2*pi))',
   }[f]));
   const anomaly = {
-    linear: 'The factor is linear in n, so no multiplicative anomaly arises',
+    linear: `The factor is linear in ${n}, so no multiplicative anomaly arises`,
     'split-polynomial': 'No multiplicative anomaly: for a polynomial in n in one dimension the regularised product of P equals leading^zeta(0) times the product of the regularised products of its linear factors (the Hurwitz expansion of zeta_P(s) gives no extra term; confirmed numerically against the zeta function of P itself in the tests, e.g. for (n + 0.3)(n + 1.7) and n^2 + a^2). In higher dimensions, or for operators rather than sequences, such a splitting can carry a multiplicative anomaly',
-    'all-integers': 'Over all integers the factor is linear in n and zeta(0) = 0, so a constant factor of the modes does not change the product and no multiplicative anomaly arises',
+    'all-integers': `Over all integers the factor is linear in ${n} and zeta(0) = 0, so a constant factor of the modes does not change the product and no multiplicative anomaly arises`,
     'factored-polynomial': 'No multiplicative anomaly: for polynomial factors the zeta-regularised product over n of prod_j (n + b_j) equals the product of the regularised products prod_j sqrt(2*pi)/Gamma(b_j) (S. Mizuno, generalised Lerch formulas), so the product of P is leading^zeta(0) times the products of its monic factors, with zeta(0) that of the whole sequence P(n) (not of any one factor: a constant c of every mode enters as c^zeta_P(0)); confirmed numerically against the zeta function of P itself in the tests',
     'all-integers-even': 'Over all integers the modes split into m >= 0 and m = -n with n >= 1 (zeta(s) is the sum of the two halves), each half a product of polynomial factors without multiplicative anomaly (S. Mizuno); for even degree the modes point the same way as m -> +inf and m -> -inf, the leading coefficient enters with zeta(0) = 0, and each shift b gives sqrt(2*pi)/Gamma(b) * sqrt(2*pi)/Gamma(1 - b) = 2*sin(pi*b). Splitting P over all integers into factors of lower degree and multiplying their products over all integers is not the same in general (the multiplicative anomaly of first-order factors)',
     'all-integers-quadratic': 'Over all integers zeta(s) = q^-s + 2*zeta_{n>=1}(s) for P = c*(n^2 + q), so zeta(0) = 0 and P is not split. Warning, multiplicative anomaly: the regularised products of the linear factors n + x and n - x (x^2 = -q, Im x > 0) multiply to (1 - exp(2*pi*i*x))^2, which is this product times exp(2*pi*i*x), not this product; the product of the quadratic is the zeta-regularised determinant of the second-order operator (-d^2/dt^2 + y^2 on a circle of length 2*pi, periodic, for q = y^2), the product of the linear ones that of the two first-order operators',
   }[s.anomaly];
   const v = s.value ? ` ${complexApprox(s.value, 15)}` : '';
   return {
-    text: `${s.factorisation ? factorisationText(s.factorisation, s.leading.text) : ''}P(n) = ${split}; by ${list(uses)}, ${s.name} = ${s.result.text}${v}, exactly. ${anomaly}.`,
+    text: `${s.factorisation ? factorisationText(s.factorisation, s.leading.text, n) : ''}P(${n}) = ${split}; by ${list(uses)}, ${s.name} = ${s.result.text}${v}, exactly. ${anomaly}.`,
     latex: `${s.name} = ${s.result.latex}`,
   };
 }

@@ -2,7 +2,7 @@ import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, computed, i
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { ActivatedRoute, Router, RouterLink } from '@angular/router';
-import { CLAUSE_WORDS, CONSTANTS, DOMAIN_HELP, FUNCTIONS } from '@shared/language';
+import { CLAUSE_WORDS, CONSTANTS, COUNT_DOMAIN, DOMAIN_HELP, FUNCTIONS } from '@shared/language';
 import type { StatementReport } from '@shared/evaluation';
 import { EMPTY, catchError, concatMap, filter, from, map, take } from 'rxjs';
 import { EvaluationApi } from '../worksheets/evaluation-api';
@@ -101,7 +101,7 @@ export class LanguageReference {
   protected readonly shown = computed(() =>
     WORKED_EXAMPLES.filter((e) => !this.query().trim() || [e.keyword, e.form, e.help, e.example].some((t) => this.matches(t))),
   );
-  protected readonly domains = computed(() => Object.entries(DOMAIN_HELP).filter(([k, v]) => !this.query().trim() || this.matches(k) || this.matches(v)));
+  protected readonly domains = computed(() => [...Object.entries(DOMAIN_HELP), [COUNT_DOMAIN.label, COUNT_DOMAIN.help] as const].filter(([k, v]) => !this.query().trim() || this.matches(k) || this.matches(v)));
   protected readonly functions = computed(() => Object.entries(FUNCTIONS).filter(([k, v]) => !this.query().trim() || this.matches(k) || this.matches(v)));
   protected readonly constants = computed(() => Object.entries(CONSTANTS).filter(([k, v]) => !this.query().trim() || this.matches(k) || this.matches(v)));
   protected readonly wordsShown = computed(() => this.domains().length + this.functions().length + this.constants().length > 0 || !this.query().trim());

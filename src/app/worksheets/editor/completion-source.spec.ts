@@ -1,4 +1,4 @@
-import { CLAUSE_WORDS, CONSTANT_NAMES, DOMAINS, FUNCTION_NAMES, STATEMENT_KEYWORDS } from '@shared/language';
+import { CLAUSE_WORDS, CONSTANT_NAMES, COUNT_DOMAIN, DOMAINS, FUNCTION_NAMES, STATEMENT_KEYWORDS } from '@shared/language';
 import { completionContext, completionEntries, hoverMarkdown } from './completion-source';
 
 const symbols = {
@@ -15,12 +15,12 @@ describe('completion source', () => {
     expect(labels('expression', ['function'])).toEqual([...FUNCTION_NAMES]);
     expect(labels('line-start', ['keyword'])).toEqual([...STATEMENT_KEYWORDS]);
     expect(labels('expression', ['clause'])).toEqual([...CLAUSE_WORDS]);
-    expect(labels('domain', ['domain'])).toEqual([...DOMAINS]);
+    expect(labels('domain', ['domain'])).toEqual([...DOMAINS, COUNT_DOMAIN.label]);
     expect(labels('expression', ['constant'])).toEqual([...CONSTANT_NAMES]);
     const words = new Set(
       (['line-start', 'domain', 'expression'] as const).flatMap((c) => labels(c, ['keyword', 'clause', 'domain', 'function', 'constant'])),
     );
-    expect([...words].sort()).toEqual([...STATEMENT_KEYWORDS, ...CLAUSE_WORDS, ...DOMAINS, ...FUNCTION_NAMES, ...CONSTANT_NAMES].sort());
+    expect([...words].sort()).toEqual([...STATEMENT_KEYWORDS, ...CLAUSE_WORDS, ...DOMAINS, COUNT_DOMAIN.label, ...FUNCTION_NAMES, ...CONSTANT_NAMES].sort());
     for (const rejected of ['tan', 'abs', 're', 'im', 'arg', 'tanh', 'atan', 'e']) expect(words.has(rejected)).toBe(false);
   });
 

@@ -4,6 +4,7 @@ import {
   CLAUSE_WORDS,
   CONSTANTS,
   CONSTANT_NAMES,
+  COUNT_DOMAIN,
   DOMAINS,
   DOMAIN_HELP,
   FUNCTIONS,
@@ -46,7 +47,9 @@ export function completionEntries(context: CompletionContext, symbols: Worksheet
     return STATEMENT_KEYWORDS.map((k) => ({ label: k, kind: 'keyword', detail: STATEMENTS[k].form, sort: `0${k}` }));
   }
   if (context === 'domain') {
-    return DOMAINS.map((d) => ({ label: d, kind: 'domain', detail: DOMAIN_HELP[d], sort: `0${d}` }));
+    const domains: CompletionEntry[] = DOMAINS.map((d) => ({ label: d, kind: 'domain', detail: DOMAIN_HELP[d], sort: `0${d}` }));
+    // Sorted just after `positive`, which it extends.
+    return [...domains, { label: COUNT_DOMAIN.label, kind: 'domain', detail: COUNT_DOMAIN.help, sort: '0positive integer' }];
   }
   const out: CompletionEntry[] = [];
   const seen = new Set<string>();
