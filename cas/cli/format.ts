@@ -16,7 +16,9 @@ export function statementLines(s: StatementReport): string[] {
   const convBasis = conv && 'basis' in conv ? conv.basis.kind : s.proof === 'proved' ? 'proved' : 'sampled';
   if (s.convergence) out.push(`  convergence: ${s.convergence} (${convBasis === 'sampled' ? 'sampled, not proved' : convBasis === 'numeric' ? 'decided in double precision' : 'proved'})`);
   if (s.result) {
-    out.push(`  result: ${s.name ?? ''} ${s.result.text.startsWith('≈') ? '' : '= '}${s.result.text}`);
+    // A comparison's result is the ratio of its two names (its report name is "A, B").
+    const name = s.kind === 'compare' ? (s.name ?? '').replace(', ', '/') : (s.name ?? '');
+    out.push(`  result: ${name} ${s.result.text.startsWith('≈') ? '' : '= '}${s.result.text}`);
     if (s.result.value) out.push(`  value: ${complexApprox(s.result.value, 15)}`);
   }
   if (s.branch) out.push(`  branch: principal sqrt(det A) ${{ right: 'is correct', wrong: 'is NOT correct', piecewise: 'is correct only on part of the domain', unknown: 'undecided' }[s.branch.principal]}`);

@@ -197,6 +197,9 @@ function resultEquation(s: StatementReport): string | null {
     return renderStep(limit).latex ?? null;
   }
   if (!s.result) return null;
+  // A comparison's result is the ratio of its two names (its report name is "A, B").
+  const pair = s.kind === 'compare' ? s.name?.split(', ') : undefined;
+  if (pair?.length === 2) return `\\frac{${mathName(pair[0]!)}}{${mathName(pair[1]!)}} = ${s.result.latex}`;
   return `${s.name ? `${mathName(s.name)} = ` : ''}${s.result.latex}`;
 }
 

@@ -4,7 +4,7 @@ import { FIXTURE_REPORT } from '../testing/report-fixture';
 import { review, statementReview } from '../../reviews/testing';
 import { renderStep } from '@shared/record/render';
 import { FindingCard } from './finding-card';
-import { badgesOf, checksOf, convergenceBadge, isProblem, nameLatex, numericBadge, resultLatex, verdictView, verifyLineFor } from './finding-view';
+import { badgesOf, checksOf, convergenceBadge, isProblem, nameLatex, numericBadge, resultLatex, resultText, verdictView, verifyLineFor } from './finding-view';
 import { paramEntries } from './param-summary';
 import reportJson from '../testing/all-step-kinds.report.json';
 import { worksheetReport } from '@shared/evaluation';
@@ -192,6 +192,12 @@ describe('card head verdicts', () => {
     const step = lim.steps[0]!;
     const asym = { ...lim, steps: [{ ...step, outcome: 'asymptotic' as const }] };
     expect(resultLatex(asym)).toMatch(/^Z \\sim /);
+  });
+  it('a comparison reads as the ratio of its two names, never as one run-together name', () => {
+    const cmp = ALL.find((s) => s.kind === 'compare' && s.result)!;
+    const [a, b] = cmp.name!.split(', ');
+    expect(resultLatex(cmp)).toBe(`\\frac{${nameLatex(a!)}}{${nameLatex(b!)}} = ${cmp.result!.latex}`);
+    expect(resultText(cmp).startsWith(`${a}/${b} `)).toBe(true);
   });
   it('names: one letter italic, longer names upright, an underscore a subscript', () => {
     expect(nameLatex('Z')).toBe('Z');

@@ -235,11 +235,14 @@ export function nameLatex(name: string): string {
 export function resultLatex(st: StatementReport): string {
   const r = st.result;
   if (!r) return '';
-  if (!st.name || /^\\(approx|sim)\b|^=/.test(r.latex.trim())) return st.name ? `${nameLatex(st.name)} ${r.latex}` : r.latex;
+  // A comparison's result is the ratio of its two names (its report name is "A, B").
+  const pair = st.kind === 'compare' ? st.name?.split(', ') : undefined;
+  const name = pair?.length === 2 ? `\\frac{${nameLatex(pair[0]!)}}{${nameLatex(pair[1]!)}}` : st.name ? nameLatex(st.name) : '';
+  if (!st.name || /^\\(approx|sim)\b|^=/.test(r.latex.trim())) return st.name ? `${name} ${r.latex}` : r.latex;
   const lim = st.kind === 'limit' ? stepOf(st, 'limit') : undefined;
   if (lim && relationOf(st) === '=') return `\\lim_{${nameLatex(lim.param)} \\to ${lim.to.latex}} ${nameLatex(st.name)} = ${r.latex}`;
   if (lim) return `${nameLatex(st.name)} \\sim ${r.latex} \\quad (${nameLatex(lim.param)} \\to ${lim.to.latex})`;
-  return `${nameLatex(st.name)} = ${r.latex}`;
+  return `${name} = ${r.latex}`;
 }
 
 /** The same in words, for screen readers. */
@@ -247,9 +250,10 @@ export function resultText(st: StatementReport): string {
   const r = st.result;
   if (!r) return '';
   if (!st.name) return r.text;
+  const name = st.kind === 'compare' ? st.name.replace(', ', '/') : st.name;
   const lim = st.kind === 'limit' ? stepOf(st, 'limit') : undefined;
   const tail = lim ? ` as ${lim.param} -> ${lim.to.text}` : '';
-  return /^(≈|~|=)/.test(r.text.trim()) ? `${st.name} ${r.text}` : `${st.name} ${relationOf(st)} ${r.text}${tail}`;
+  return /^(≈|~|=)/.test(r.text.trim()) ? `${name} ${r.text}` : `${name} ${relationOf(st)} ${r.text}${tail}`;
 }
 
 export function formatSmall(x: number): string {
