@@ -38,7 +38,7 @@ type Output = { state: 'waiting' } | { state: 'done'; statement: StatementReport
       @for (e of shown(); track e.keyword) {
         <article class="entry sw-panel" [id]="e.keyword" [attr.data-keyword]="e.keyword" data-testid="language-entry">
           <h2><code>{{ e.keyword }}</code></h2>
-          <p>{{ e.help }}</p>
+          <p>@for (part of codeSpans(e.help); track $index) {@if (part.code) {<code>{{ part.text }}</code>} @else {{{ part.text }}}}</p>
           <p class="form"><span class="label">Form</span> <code>{{ e.form }}</code></p>
           <div class="example">
             <p class="label">Worked example</p>
@@ -81,6 +81,7 @@ type Output = { state: 'waiting' } | { state: 'done'; statement: StatementReport
     .entry h2 { margin: 0 0 0.3rem; font-size: 1.15rem; }
     .label { font-size: 0.78rem; font-weight: 600; text-transform: uppercase; letter-spacing: 0.04em; color: var(--sw-muted-ink); margin: 0.6rem 0 0.2rem; }
     .form code { overflow-wrap: anywhere; }
+    .form .label { margin-right: 0.6rem; }
     .source { margin: 0; padding: 0.5rem 0.75rem; border: 1px solid var(--sw-rule); border-radius: 6px; font-size: 0.85rem; white-space: pre-wrap; overflow-wrap: anywhere; }
     .source .focus { font-weight: 700; }
     .words { display: grid; grid-template-columns: max-content 1fr; gap: 0.25rem 1rem; margin: 0; dd { margin: 0; } }
@@ -96,6 +97,8 @@ export class LanguageReference {
   protected readonly query = signal(this.route.snapshot.queryParamMap.get('q') ?? '');
   protected readonly outputs = signal<Partial<Record<string, Output>>>({});
   protected readonly clauses = CLAUSE_WORDS;
+  /** The help texts mark code with backticks (Markdown, as the editor's hovers show them). */
+  protected readonly codeSpans = (text: string) => text.split('`').map((t, i) => ({ text: t, code: i % 2 === 1 }));
 
   private readonly matches = (text: string) => text.toLowerCase().includes(this.query().trim().toLowerCase());
   protected readonly shown = computed(() =>
