@@ -138,8 +138,9 @@ export const step = z.discriminatedUnion('kind', [
     /** Where it holds and where not, when that changes inside the domain (exact conditions). */
     regions: z.array(region).default([]),
     /** differs: the squares or exponentials differ exactly; sign: equal up to a sign read per cell;
-     *  identical: the same rational function of the parameters and of exp/sinh/cosh/sin/cos values; sampled. */
-    how: z.enum(['differs', 'sign', 'identical', 'sampled']).default('sampled'),
+     *  identical: the same rational function of the parameters and of exp/sinh/cosh/sin/cos values;
+     *  exponential-form: the same after sinh, cosh and whole multiples of asinh are written as exponentials (cas/verdicts/expForm.ts); sampled. */
+    how: z.enum(['differs', 'sign', 'identical', 'exponential-form', 'sampled']).default('sampled'),
   }),
   z.object({
     kind: z.literal('numeric-check'),
@@ -237,6 +238,8 @@ export const step = z.discriminatedUnion('kind', [
     constant: z.boolean(),
     basis,
     spread: z.number(),
+    /** A proved constant ratio: shown with the values as symbols, or after writing sinh, cosh and asinh as exponentials (cas/verdicts/expForm.ts). */
+    how: z.enum(['values', 'exponential-form']).optional(),
   }),
   z.object({
     kind: z.literal('comparison-verdict'),

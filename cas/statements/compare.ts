@@ -20,7 +20,7 @@ import { complexApprox, complexApproxLatex } from '../../shared/record/numbers.j
 import { checkDeadline } from '../deadline.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
 import { resultNamed } from './shared.js';
-import { constantRatio } from '../verdicts/identity.js';
+import { constantRatioHow } from '../verdicts/identity.js';
 import { gqToString, gToNumber, Q1, qadd, qIsZero, qmul, qsub } from '../exact/q.js';
 
 const SAMPLES = 24;
@@ -56,7 +56,8 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
   report.phaseOverPiQuarter = constant && Math.abs(modulus - 1) < 1e-9 && isQuarter ? (m === -4 ? 4 : m) : null;
   // proved on the whole domain when the ratio is an exact constant of the forms (verdicts/identity.ts),
   // kept only when every sampled ratio agrees with it
-  const c = a.expr && b.expr ? constantRatio(a.expr, b.expr) : null;
+  const shown = a.expr && b.expr ? constantRatioHow(a.expr, b.expr) : null;
+  const c = shown?.ratio ?? null;
   const cv = c && gToNumber(c);
   const provedRatio = !!cv && ratios.every(({ r }) => Math.hypot(r.re - cv.re, r.im - cv.im) <= 1e-9 * Math.max(1, Math.hypot(cv.re, cv.im)));
   if (provedRatio) {
@@ -95,6 +96,7 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
     kind: 'comparison', a: s.target.name, b: s.other.name,
     ratio: ratioText === null ? null : { text: ratioText, latex: ratioLatex! },
     ratioValue: r0, constant, basis, spread,
+    ...(provedRatio ? { how: shown!.how } : {}),
   });
   report.steps.push({
     kind: 'comparison-verdict', a: s.target.name, b: s.other.name, verdict,

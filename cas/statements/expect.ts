@@ -5,7 +5,7 @@
  */
 import type { StatementReport, Step } from '../../shared/evaluation.js';
 import { decideExpectExactly } from '../verdicts/expectExact.js';
-import { sameFunction } from '../verdicts/identity.js';
+import { sameFunctionHow } from '../verdicts/identity.js';
 import { renderStep } from '../../shared/record/render.js';
 import type { Statement } from '../lang/ast.js';
 import { evaluate } from '../expr/evaluate.js';
@@ -53,9 +53,10 @@ export function evaluateExpect(s: Extract<Statement, { kind: 'expect' }>, ctx: C
     return report;
   }
   // the same function exactly (rational in the parameters and in values of exp, sinh, cosh, sin, cos)
-  if (result.expr && sameFunction(result.expr, s.expr)) {
+  const identity = result.expr ? sameFunctionHow(result.expr, s.expr) : null;
+  if (identity) {
     report.proof = 'proved';
-    report.steps.push({ kind: 'expect', name, expected: formulaOf(s.expr), holds: true, exact: true, basis: { kind: 'proved' }, worst: null, regions: [], how: 'identical' });
+    report.steps.push({ kind: 'expect', name, expected: formulaOf(s.expr), holds: true, exact: true, basis: { kind: 'proved' }, worst: null, regions: [], how: identity === 'values' ? 'identical' : 'exponential-form' });
     return report;
   }
   const points = ordered.length ? samplePoints(domains, ordered, EXPECT_SAMPLES, 777) : [new Map()];

@@ -150,6 +150,12 @@ function expect(s: StepOf<'expect'>): RenderedStep {
         latex: `${s.name} = ${s.expected.latex}`,
       };
     }
+    if (s.holds && s.how === 'exponential-form') {
+      return {
+        text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: ${EXPONENTIAL_FORM}.`,
+        latex: `${s.name} = ${s.expected.latex}`,
+      };
+    }
     if (s.holds) {
       return {
         text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: both sides have the same square and exponent exactly, and the same sign wherever ${s.name} is defined.`,
@@ -291,10 +297,15 @@ function sheet(s: StepOf<'sheet'>): RenderedStep {
   };
 }
 
+/** How an identity over hyperbolic functions and asinh is shown (cas/verdicts/expForm.ts). */
+const EXPONENTIAL_FORM =
+  'with sinh(u) = (exp(u) - exp(-u))/2, cosh(u) = (exp(u) + exp(-u))/2 and exp(k*asinh(y)) = (y + sqrt(y^2 + 1))^k for whole k (the principal asinh(y) is log(y + sqrt(y^2 + 1)) on its whole cut plane, so no branch choice enters), and each sqrt(y^2 + 1) reduced by its square, the two sides are the same rational function of the parameters and the remaining values';
+
 function comparison(s: StepOf<'comparison'>): RenderedStep {
   const ratio = s.ratio ? s.ratio.text : complexApprox(s.ratioValue, 12);
+  const how = s.how === 'exponential-form' ? `: ${EXPONENTIAL_FORM}, up to this constant factor` : s.how === 'values' ? ': the same rational function of the parameters and of the values of exp, sinh, cosh, sin and cos in them, up to this constant factor' : '';
   return {
-    text: `${s.a}/${s.b} = ${ratio}${s.constant ? `, constant (${basisText(s.basis)})` : `; not constant (${basisText(s.basis)})`}.`,
+    text: `${s.a}/${s.b} = ${ratio}${s.constant ? `, constant (${basisText(s.basis)}${how})` : `; not constant (${basisText(s.basis)})`}.`,
     latex: `\\frac{${s.a}}{${s.b}} ${s.ratio ? `= ${s.ratio.latex}` : complexApproxLatex(s.ratioValue, 12)}`,
   };
 }
