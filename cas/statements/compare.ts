@@ -71,14 +71,15 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
   let ratioText: string | null = null;
   let ratioLatex: string | null = null;
   // exact first: equal exponentials and a constant ratio of squares give |ratio| exactly and its phase as m*pi/4
-  const exact = a.expr && b.expr ? exactConstantRatio(a.expr, b.expr, r0) : null;
+  // (a proved constant ratio is printed as that constant: no form to simplify)
+  const exact = a.expr && b.expr && !provedRatio ? exactConstantRatio(a.expr, b.expr, r0) : null;
   if (exact) {
     const agrees = ratios.every(({ p, r }) => {
       try { const v = ratioAt(exact, p); return Math.hypot(v.re - r.re, v.im - r.im) <= 1e-8 * Math.max(1, Math.hypot(r.re, r.im)); } catch { return false; }
     });
     if (agrees) { ratioText = toText(exact); ratioLatex = toLatex(exact); }
   }
-  if (ratioText === null && a.expr && b.expr) {
+  if (ratioText === null && a.expr && b.expr && !provedRatio) {
     const sym = rewriteChecked('simplify', div(a.expr, b.expr), points.slice(0, 8));
     const t = tidy(sym.expr);
     const symAgrees = ratios.every(({ p, r }) => {
