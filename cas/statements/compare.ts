@@ -56,7 +56,9 @@ export function evaluateCompare(s: Extract<Statement, { kind: 'compare' }>, ctx:
   report.phaseOverPiQuarter = constant && Math.abs(modulus - 1) < 1e-9 && isQuarter ? (m === -4 ? 4 : m) : null;
   // proved on the whole domain when the ratio is an exact constant of the forms (verdicts/identity.ts),
   // kept only when every sampled ratio agrees with it
-  const shown = a.expr && b.expr ? constantRatioHow(a.expr, b.expr) : null;
+  // (a let's exact form, not its sampled simplification: see ResultInfo.exactForm)
+  const [fa, fb] = [a.exactForm ?? a.expr, b.exactForm ?? b.expr];
+  const shown = fa && fb ? constantRatioHow(fa, fb) : null;
   const c = shown?.ratio ?? null;
   const cv = c && gToNumber(c);
   const provedRatio = !!cv && ratios.every(({ r }) => Math.hypot(r.re - cv.re, r.im - cv.im) <= 1e-9 * Math.max(1, Math.hypot(cv.re, cv.im)));

@@ -35,6 +35,12 @@ export interface ResultInfo {
   gaussian?: GaussianInfo;
   /** A derived quantity's definition as written (let), for routes that read its shape. */
   definition?: Expr;
+  /**
+   * let: the definition with the results' own exact forms substituted, before the general
+   * algebra package simplifies it (the displayed form is checked only at sample points).
+   * Proofs (expect, compare) read this, so a proof never rests on a sampled rewrite.
+   */
+  exactForm?: Expr;
   /** A Berezin integral's Grassmann variables (in the order written) and its antisymmetric A: moments under it. */
   berezin?: { vars: string[]; A: RatFunc[][] };
   /** A Gaussian sum over the integers (sum statement): the term exp(-pi*a*n^2 + 2*pi*i*b*n + g), exactly; the expansion engine and verify read it. */

@@ -38,7 +38,9 @@ export function evaluateExpect(s: Extract<Statement, { kind: 'expect' }>, ctx: C
   const ordered = [...ctx.params.keys()].filter((p) => names.has(p));
   // On the whole domain where the forms allow it (rational functions, their roots and exponentials of one parameter).
   const domains = domainsOf(ctx, ordered);
-  const onDomain = result.expr ? decideExpectExactly(result.expr, s.expr, ordered, domains, result.valueAt, samplePoints(domains, ordered, 1)[0] ?? new Map()) : null;
+  // Proofs read a let's exact form, not its sampled simplification (ResultInfo.exactForm).
+  const proofForm = result.exactForm ?? result.expr;
+  const onDomain = proofForm ? decideExpectExactly(proofForm, s.expr, ordered, domains, result.valueAt, samplePoints(domains, ordered, 1)[0] ?? new Map()) : null;
   if (onDomain) {
     const exact = onDomain;
     report.status = exact.holds ? 'ok' : 'failed';
@@ -53,7 +55,7 @@ export function evaluateExpect(s: Extract<Statement, { kind: 'expect' }>, ctx: C
     return report;
   }
   // the same function exactly (rational in the parameters and in values of exp, sinh, cosh, sin, cos)
-  const identity = result.expr ? sameFunctionHow(result.expr, s.expr) : null;
+  const identity = proofForm ? sameFunctionHow(proofForm, s.expr) : null;
   if (identity) {
     report.proof = 'proved';
     report.steps.push({ kind: 'expect', name, expected: formulaOf(s.expr), holds: true, exact: true, basis: { kind: 'proved' }, worst: null, regions: [], how: identity === 'values' ? 'identical' : 'exponential-form' });

@@ -55,7 +55,7 @@ export function evaluateLet(s: Extract<Statement, { kind: 'let' }>, ctx: Context
   const points = params.length ? samplePoints(domainsOf(ctx, params), params, 24, 2718) : [new Map()];
   // closed form: the results' forms substituted
   const subst = new Map<string, Expr>();
-  for (const n of resultsUsed) { const e = ctx.results.get(n)!.expr; if (e) subst.set(n, e); }
+  for (const n of resultsUsed) { const r = ctx.results.get(n)!; const e = r.exactForm ?? r.expr; if (e) subst.set(n, e); }
   const full = substitute(s.expr, subst);
   const closedOk = resultsUsed.every((n) => subst.has(n));
   const simplified = closedOk ? rewriteChecked('simplify', full, points.slice(0, 8)) : { expr: s.expr, accepted: false };
@@ -93,6 +93,6 @@ export function evaluateLet(s: Extract<Statement, { kind: 'let' }>, ctx: Context
     kind: 'derived', name, definition: formulaOf(s.expr), closed: formHolds ? formulaOf(exactDecimals(form)) : null,
     compared, agreeing: agree, usesResults: resultsUsed.length > 0, value,
   });
-  ctx.results.set(name, { line, unavailable: null, expr: formHolds ? form : null, params, valueAt, definition: s.expr });
+  ctx.results.set(name, { line, unavailable: null, expr: formHolds ? form : null, params, valueAt, definition: s.expr, ...(closedOk ? { exactForm: full } : {}) });
   return report;
 }

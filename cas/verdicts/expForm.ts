@@ -7,6 +7,9 @@
  * sqrt(y^2 + 1) becomes a symbol c with the relation c^2 = y^2 + 1, which the proof
  * reduces by; what remains of an exponent stays one value exp(r), written 1/exp(-r) for
  * one of the two signs of r, so that exp(r) and exp(-r) are one symbol and its inverse.
+ * A principal square root sqrt(X) (or X^(k/2), k odd, read as X^((k-1)/2)*sqrt(X)) with
+ * X rational in the parameters is a symbol c with c^2 = X as well: that relation holds for
+ * every branch, and no other property of the root is used.
  * Every rewrite is an identity of single-valued functions on the whole plane, so an
  * identity shown in this form holds for the expressions as written.
  *
@@ -76,7 +79,17 @@ export function expForm(e: Expr, forms: ExpForms): Expr | null {
       case 'bin': {
         const a = go(x.a);
         const b = a && go(x.b);
-        return a && b ? { t: 'bin', op: x.op, a, b } : null;
+        if (!a || !b) return null;
+        // X^(k/2) with k odd: X^((k - 1)/2) * sqrt(X), the root a symbol as below
+        if (x.op === '^') {
+          const e = fromExpr(b);
+          const k = e && rfConstantValue(e);
+          if (k && k.im.n === 0n && k.re.d === 2n) {
+            const root = rootOf(a, 'square');
+            return root ? bin('*', bin('^', a, num(((k.re.n - 1n) / 2n).toString())), { t: 'name', name: root }) : null;
+          }
+        }
+        return { t: 'bin', op: x.op, a, b };
       }
       case 'call': {
         if (x.args.length !== 1) return null;
@@ -88,6 +101,10 @@ export function expForm(e: Expr, forms: ExpForms): Expr | null {
           return plus && minus ? bin('/', bin(x.fn === 'sinh' ? '-' : '+', plus, minus), num('2')) : null;
         }
         const arg = go(u);
+        if (arg && x.fn === 'sqrt') {
+          const root = rootOf(arg, 'square');
+          return root ? { t: 'name', name: root } : null;
+        }
         return arg && { t: 'call', fn: x.fn, args: [arg] };
       }
     }
@@ -107,7 +124,7 @@ export function expForm(e: Expr, forms: ExpForms): Expr | null {
         continue;
       }
       const [k, y] = m;
-      const root = rootOf(y);
+      const root = rootOf(y, 'asinh');
       if (!root) return null;
       if (k !== 0n) out = bin('*', out, bin('^', bin('+', y, { t: 'name', name: root }), num(k.toString())));
     }
@@ -121,15 +138,14 @@ export function expForm(e: Expr, forms: ExpForms): Expr | null {
     }
     return out;
   };
-  const rootOf = (y: Expr): string | null => {
-    const ry = fromExpr(y);
-    if (!ry) return null;
-    const key = rfToString(ry);
+  /** The symbol for sqrt(y^2 + 1) (asinh) or sqrt(y) (square), one per square. */
+  const rootOf = (y: Expr, of: 'asinh' | 'square'): string | null => {
+    const square = fromExpr(of === 'asinh' ? bin('+', bin('^', y, num('2')), num('1')) : y);
+    if (!square) return null;
+    const key = rfToString(square);
     let name = forms.byArgument.get(key);
     if (!name) {
       name = `%root${forms.roots.length}`;
-      const square = fromExpr(bin('+', bin('^', y, num('2')), num('1')));
-      if (!square) return null;
       forms.byArgument.set(key, name);
       forms.roots.push({ name, square });
     }

@@ -299,7 +299,7 @@ function sheet(s: StepOf<'sheet'>): RenderedStep {
 
 /** How an identity over hyperbolic functions and asinh is shown (cas/verdicts/expForm.ts). */
 const EXPONENTIAL_FORM =
-  'with sinh(u) = (exp(u) - exp(-u))/2, cosh(u) = (exp(u) + exp(-u))/2 and exp(k*asinh(y)) = (y + sqrt(y^2 + 1))^k for whole k (the principal asinh(y) is log(y + sqrt(y^2 + 1)) on its whole cut plane, so no branch choice enters), and each sqrt(y^2 + 1) reduced by its square, the two sides are the same rational function of the parameters and the remaining values';
+  'with sinh(u) = (exp(u) - exp(-u))/2, cosh(u) = (exp(u) + exp(-u))/2 and exp(k*asinh(y)) = (y + sqrt(y^2 + 1))^k for whole k (the principal asinh(y) is log(y + sqrt(y^2 + 1)) on its whole cut plane, so no branch choice enters), and each square root reduced by its square (sqrt(y^2 + 1), and sqrt(X) or X^(k/2) in the forms, X rational in the parameters), the two sides are the same rational function of the parameters and the remaining values';
 
 function comparison(s: StepOf<'comparison'>): RenderedStep {
   const ratio = s.ratio ? s.ratio.text : complexApprox(s.ratioValue, 12);

@@ -156,3 +156,16 @@ test('exponential form: what it must not claim, and constant ratios', () => {
   assert.equal(cmp.proof, 'proved');
   assert.ok(cmp.steps.some((s) => s.kind === 'comparison' && s.how === 'exponential-form'));
 });
+
+test('square roots reduced by their squares, and proofs that read a let through its exact form', () => {
+  // (2*pi)^(5/2)/sqrt(P) squared is (2*pi)^5/P: sqrt(P)^2 = P for the principal root everywhere
+  assert.equal(sameFunction(parseExpression('((2*pi)^(5/2)/sqrt(192 + 280*w^2))^2'), parseExpression('(2*pi)^5/(192 + 280*w^2)')), true);
+  assert.equal(sameFunction(parseExpression('sqrt(w^2)'), parseExpression('w')), false); // |w| for real w: no property of the root beyond its square
+  assert.deepEqual(mpmathAgree([['((2*pi)**(5/2)/(192 + 280*w^2)**(1/2))^2', '(2*pi)^5/(192 + 280*w^2)', ['w']]]), [true]);
+  // a let whose displayed form is a sampled simplification: the proof reads the definition with the integral's closed form
+  // (Z = sqrt(2*pi/(2 + w^2))*sqrt(pi/(1 + w)), the one-dimensional Gaussian twice: common practice)
+  const r = run('param w : positive\nintegral Z = exp(-(2 + w^2)*x^2/2 - (1 + w)*y^2) d(x, y)\nlet R = (2*pi)^2/Z^2\nexpect R = 2*(1 + w)*(2 + w^2)\n');
+  const ex = r.statements.at(-1)!;
+  assert.equal(ex.status, 'ok');
+  assert.equal(ex.proof, 'proved');
+});
