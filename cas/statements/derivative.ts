@@ -175,7 +175,8 @@ export function evaluateDerivative(s: Extract<Statement, { kind: 'derivative' }>
   if (worst > 1e-4) throw new StatementFailure(`The exact derivative disagrees with central differences (relative difference ≈ ${worst.toPrecision(3)}); it is withheld.`, line, s.span.start.column);
 
   const closedMap = new Map<string, Expr>();
-  for (const n of resultsUsed) { const e = ctx.results.get(n)!.expr; if (e) closedMap.set(n, e); }
+  // a let through its exact form (ResultInfo.exactForm), so later proofs never read a sampled rewrite
+  for (const n of resultsUsed) { const r = ctx.results.get(n)!; const e = r.exactForm ?? r.expr; if (e) closedMap.set(n, e); }
   const closed = closedMap.size === resultsUsed.size ? substitute(shown, closedMap) : null;
   const valueAt = (pt: Point) => { const z = valueOf(shown, pt); return z && { re: z.re, im: z.im }; };
   const value = params.length ? null : valueAt(new Map());
