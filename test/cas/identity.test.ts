@@ -169,3 +169,27 @@ test('square roots reduced by their squares, and proofs that read a let through 
   assert.equal(ex.status, 'ok');
   assert.equal(ex.proof, 'proved');
 });
+
+test('property: identities claimed through exponentials agree in mathjs, and known rewrites are seen', () => {
+  // each pair: a value and an equal form of it (double-angle and sinh(asinh(x)) = x: common practice)
+  const rewrites: [string, string][] = [
+    ['cosh(asinh(x))', 'sqrt(x^2 + 1)'],
+    ['sinh(2*asinh(x))', '(2*x*sqrt(x^2 + 1))'],
+    ['cosh(2*asinh(x))', '(1 + 2*x^2)'],
+    ['sinh(y)', '((exp(y) - exp(-y))/2)'],
+    ['exp(3*asinh(x))', '(x + sqrt(x^2 + 1))^3'],
+  ];
+  const atoms = [...rewrites.map(([a]) => a), 'x', 'y', 'cosh(y)'];
+  const term = fc.tuple(fc.constantFrom(...atoms), fc.constantFrom(...atoms), fc.integer({ min: -3, max: 3 }));
+  fc.assert(fc.property(fc.array(term, { minLength: 1, maxLength: 3 }), fc.array(term, { minLength: 1, maxLength: 3 }), (xs, ys) => {
+    const text = (ts: [string, string, number][]) => ts.map(([p, q, c]) => `(${c})*${p}*${q}`).join(' + ');
+    const a = text(xs);
+    const b = text(ys);
+    if (sameFunction(parseExpression(a), parseExpression(b))) assert.ok(agreeNumerically(a, b, ['x', 'y']), `${a} against ${b}`);
+    // the same sum with every atom rewritten is seen to be the same function, and agrees
+    let rewritten = a;
+    for (const [from, to] of rewrites) rewritten = rewritten.split(from).join(to);
+    assert.equal(sameFunction(parseExpression(a), parseExpression(rewritten)), true, `${a} against ${rewritten}`);
+    assert.ok(agreeNumerically(a, rewritten, ['x', 'y']), `mathjs: ${a} against ${rewritten}`);
+  }), { numRuns: 60, seed: 20261203 });
+});
