@@ -139,8 +139,9 @@ export const step = z.discriminatedUnion('kind', [
     regions: z.array(region).default([]),
     /** differs: the squares or exponentials differ exactly; sign: equal up to a sign read per cell;
      *  identical: the same rational function of the parameters and of exp/sinh/cosh/sin/cos values;
+     *  continuous-sign: the same square and exponent, every radicand off the cut on the whole domain (several parameters), the sign read once per connected piece;
      *  exponential-form: the same after sinh, cosh and whole multiples of asinh are written as exponentials (cas/verdicts/expForm.ts); sampled. */
-    how: z.enum(['differs', 'sign', 'identical', 'exponential-form', 'sampled']).default('sampled'),
+    how: z.enum(['differs', 'sign', 'continuous-sign', 'identical', 'exponential-form', 'sampled']).default('sampled'),
   }),
   z.object({
     kind: z.literal('numeric-check'),

@@ -18,8 +18,9 @@ import { variables } from '../exact/poly.js';
 import { upolyFromPoly, type UPoly } from '../exact/univariate.js';
 import { qToNumber } from '../exact/q.js';
 import { cellsOf, type Cell } from './line.js';
-import { conditionOf, isHomogeneous, rfIm, setTo1 } from './exactGaussian.js';
-import { squareForm } from './squareForm.js';
+import { conditionOf, isHomogeneous, rfIm, rfRe, setTo1 } from './exactGaussian.js';
+import { squareForm, type SquareForm } from './squareForm.js';
+import { positiveOnDomain } from './positiveOnDomain.js';
 import type { Point } from '../domains/sample.js';
 import type { C } from '../numeric/cmatrix.js';
 
@@ -28,8 +29,8 @@ export interface ExactExpect {
   /** Where it holds and where not, when that changes inside the domain. */
   regions: { condition: Formula; holds: boolean }[];
   counterexample?: { at: PointValues; lhs: C; rhs: C | null };
-  /** differs: E^2 != F^2 or the exponentials differ; sign: equal up to a sign that was read per cell. */
-  how: 'differs' | 'sign';
+  /** differs: E^2 != F^2 or the exponentials differ; sign: equal up to a sign that was read per cell; continuous-sign: read once per connected piece (several parameters). */
+  how: 'differs' | 'sign' | 'continuous-sign';
 }
 
 const varsOf = (r: RatFunc) => [...variables(r.num), ...variables(r.den)];
@@ -48,9 +49,9 @@ export function decideExpectExactly(
   let scaledBy: string | null = null;
   if (names.length === 2) {
     const q = names.find((v) => domains.get(v) === 'positive');
-    if (!q || ![...f.radicands, ...e.radicands].every((r) => isHomogeneous(r, names))) return null;
+    if (!q || ![...f.radicands, ...e.radicands].every((r) => isHomogeneous(r, names))) return decideBySignOnComponents(f, e, expected, names, domains, valueAt, base);
     scaledBy = q;
-  } else if (names.length > 2) return null;
+  } else if (names.length > 2) return decideBySignOnComponents(f, e, expected, names, domains, valueAt, base);
   const param = names.find((v) => v !== scaledBy) ?? null;
   const pointAt = (cell: Cell): Point => {
     const p = new Map(base);
@@ -114,4 +115,39 @@ export function decideExpectExactly(
     for (const r of runs) regions.push({ condition: conditionOf(r.cells, param, scaledBy, domain), holds: r.holds });
   }
   return { holds: holdsEverywhere, regions, how: 'sign', ...(counterexample ? { counterexample } : {}) };
+}
+
+/**
+ * Any number of real parameters: when both sides have the same square and exponent and
+ * every radicand has a positive real part on the whole domain (positiveOnDomain.ts), each
+ * principal root is continuous and nonzero there, so E/F is a continuous function whose
+ * square is 1 on each connected piece of the domain (a box; a nonzero parameter splits it
+ * in two): one point per piece decides its sign. Null when a radicand is not shown off
+ * the cut, when the squares differ (left to sampling), or when the pieces disagree.
+ */
+function decideBySignOnComponents(
+  f: SquareForm, e: SquareForm, expected: Expr, names: readonly string[], domains: ReadonlyMap<string, Domain>,
+  valueAt: (p: Point) => C | null, base: Point,
+): ExactExpect | null {
+  if (!rfEquals(f.sq, e.sq) || !rfEquals(f.S, e.S)) return null;
+  if (![...f.radicands, ...e.radicands].every((r) => positiveOnDomain(rfRe(r), domains))) return null;
+  const split = names.filter((v) => domains.get(v) === 'nonzero');
+  if (split.length > 3) return null;
+  const inside: Record<string, number> = { positive: 1.3, negative: -1.3, real: 0.7, nonzero: 1.3 };
+  let agree = 0;
+  let counterexample: ExactExpect['counterexample'];
+  for (let mask = 0; mask < 2 ** split.length; mask++) {
+    const p = new Map(base);
+    for (const v of names) p.set(v, new Complex(inside[domains.get(v)!]! * (split.indexOf(v) >= 0 && mask & (1 << split.indexOf(v)) ? -1 : 1), 0));
+    const v = valueAt(p);
+    if (!v) return null;
+    let w: Complex;
+    try { w = evaluate(expected, p); } catch { return null; }
+    if (!Number.isFinite(w.re) || !Number.isFinite(w.im)) return null;
+    if (w.re * v.re + w.im * v.im > 0) agree++;
+    else counterexample ??= { at: Object.fromEntries([...p].map(([k, z]) => [k, { re: z.re, im: z.im }])), lhs: v, rhs: { re: w.re, im: w.im } };
+  }
+  if (agree === 2 ** split.length) return { holds: true, regions: [], how: 'continuous-sign' };
+  if (agree === 0) return { holds: false, regions: [], how: 'continuous-sign', ...(counterexample ? { counterexample } : {}) };
+  return null;
 }

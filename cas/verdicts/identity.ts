@@ -19,8 +19,9 @@
  * Example: sameFunction(sinh(w*L)/(w*L), sinh(L*w)/(L*w)) is true; with sqrt it is false.
  */
 import type { Expr } from '../lang/ast.js';
-import { fromExpr, rfAdd, rfConst, rfConstantValue, rfDiv, rfIsZero, rfMul, rfPoly, rfPow, rfSub, RF0, type RatFunc } from '../exact/ratfunc.js';
-import { coefficients, type Poly } from '../exact/poly.js';
+import { fromExpr, rfConstantValue, rfDiv, rfIsZero, rfSub, type RatFunc } from '../exact/ratfunc.js';
+import { coefficients, isZero, leadingTerm, monoKey, polyAdd, polyMul, polyPow, polyScale, polySub, ZERO, type Poly } from '../exact/poly.js';
+import { ginv, gmul, gzero } from '../domains/rational.js';
 import type { GQ } from '../exact/q.js';
 import { newValueSymbols, valuesAsSymbols } from '../expr/atoms.js';
 import { expForm, newExpForms, type RootSymbol } from './expForm.js';
@@ -45,27 +46,62 @@ function bothSides(a: Expr, b: Expr, roots?: RootSymbol[]): [RatFunc, RatFunc] |
   return ra && rb ? [ra, rb] : null;
 }
 
+/** The second try works on polynomials only (no multivariate gcd, which can take very long), within this many terms. */
+const TERM_BUDGET = 20_000;
+
+class OverBudget extends Error {}
+const within = (p: Poly): Poly => {
+  if (p.terms.size > TERM_BUDGET) throw new OverBudget();
+  return p;
+};
+
 /**
- * A polynomial in the roots c_j (c_j^2 = square_j) reduced to degree at most 1 in each:
- * the coefficient of each product of distinct roots, keyed by their names. The sum is
- * zero as a function when every coefficient is (the relations hold for the values).
+ * Polynomials in the roots c_j (c_j^2 = P_j/Q_j) reduced to degree at most 1 in each: the
+ * coefficient of each product of distinct roots, keyed by their names, each multiplied by
+ * the same power Q_j^M of the square's denominator for all the inputs (so ratios between
+ * the inputs are kept). A polynomial is zero as a function when every coefficient is (the
+ * relations hold for the values, and Q_j is not the zero polynomial).
  */
-function reduceByRoots(p: Poly, roots: readonly RootSymbol[]): Map<string, RatFunc> {
-  let parts = new Map<string, RatFunc>([['', rfPoly(p)]]);
+function reduceByRoots(ps: readonly Poly[], roots: readonly RootSymbol[]): Map<string, Poly>[] {
+  let parts = ps.map((p) => new Map<string, Poly>([['', p]]));
   for (const root of roots) {
-    const next = new Map<string, RatFunc>();
-    const add = (key: string, r: RatFunc) => next.set(key, rfAdd(next.get(key) ?? RF0, r));
-    for (const [key, r] of parts) {
-      // r's denominator is free of the roots (it is made of the squares' denominators).
-      coefficients(r.num, root.name).forEach((c, k) => {
-        if (c.terms.size === 0) return;
-        const term = rfDiv(rfMul(rfPoly(c), rfPow(root.square, Math.floor(k / 2))), rfPoly(r.den));
-        add(k % 2 ? `${key}*${root.name}` : key, term);
-      });
-    }
-    parts = next;
+    const P = root.square.num;
+    const Q = root.square.den;
+    let top = 0;
+    for (const m of parts) for (const p of m.values()) top = Math.max(top, coefficients(p, root.name).length - 1);
+    const M = Math.floor(top / 2);
+    parts = parts.map((m) => {
+      const next = new Map<string, Poly>();
+      for (const [key, p] of m) {
+        coefficients(p, root.name).forEach((c, k) => {
+          if (c.terms.size === 0) return;
+          const half = Math.floor(k / 2);
+          const term = within(polyMul(c, within(polyMul(polyPow(P, half), polyPow(Q, M - half)))));
+          const to = k % 2 ? `${key}*${root.name}` : key;
+          next.set(to, within(polyAdd(next.get(to) ?? ZERO, term)));
+        });
+      }
+      return next;
+    });
   }
   return parts;
+}
+
+/** Both sides in exponential form as numerator and denominator polynomials, with their roots; null when out of reach. */
+function formedSides(a: Expr, b: Expr): { na: Poly; da: Poly; nb: Poly; db: Poly; roots: RootSymbol[] } | null {
+  const roots: RootSymbol[] = [];
+  const formed = bothSides(a, b, roots);
+  if (!formed || !roots.length && !formedDiffers(a, b)) return null;
+  return { na: formed[0].num, da: formed[0].den, nb: formed[1].num, db: formed[1].den, roots };
+}
+
+/** Whether the exponential form changes anything (sinh, cosh, asinh, sqrt or half powers are present). */
+function formedDiffers(a: Expr, b: Expr): boolean {
+  const has = (e: Expr): boolean =>
+    e.t === 'call' ? ['sinh', 'cosh', 'asinh', 'sqrt'].includes(e.fn) || e.args.some(has)
+      : e.t === 'bin' ? e.op === '^' || has(e.a) || has(e.b)
+        : e.t === 'neg' ? has(e.a) : false;
+  return has(a) || has(b);
 }
 
 /** How an identity was shown: the values as symbols, or after the exponential form of expForm.ts. */
@@ -75,12 +111,16 @@ export type IdentityMethod = 'values' | 'exponential-form';
 export function sameFunctionHow(a: Expr, b: Expr): IdentityMethod | null {
   const plain = bothSides(a, b);
   if (plain && rfIsZero(rfSub(...plain))) return 'values';
-  // Second try: hyperbolic functions and asinh in exponential form (expForm.ts).
-  const roots: RootSymbol[] = [];
-  const formed = bothSides(a, b, roots);
-  if (!formed) return null;
-  const d = rfSub(...formed);
-  return [...reduceByRoots(d.num, roots).values()].every(rfIsZero) ? 'exponential-form' : null;
+  // Second try: hyperbolic functions and asinh in exponential form (expForm.ts), a = b as na*db = nb*da.
+  try {
+    const f = formedSides(a, b);
+    if (!f) return null;
+    const d = within(polySub(within(polyMul(f.na, f.db)), within(polyMul(f.nb, f.da))));
+    return [...reduceByRoots([d], f.roots)[0]!.values()].every(isZero) ? 'exponential-form' : null;
+  } catch (e) {
+    if (e instanceof OverBudget) return null;
+    throw e;
+  }
 }
 
 /** True when `a` and `b` are shown to be the same function (see above); false when not shown. */
@@ -100,18 +140,23 @@ export function constantRatioHow(a: Expr, b: Expr): { ratio: GQ; how: IdentityMe
     const c = rfConstantValue(rfDiv(...plain));
     if (c) return { ratio: c, how: 'values' };
   }
-  // Second try, as in sameFunction: a/b = K exactly when num(a/b) - K*den(a/b) reduces to 0.
-  const roots: RootSymbol[] = [];
-  const formed = bothSides(a, b, roots);
-  if (!formed || rfIsZero(formed[0]) || rfIsZero(formed[1])) return null;
-  const q = rfDiv(...formed);
-  const top = reduceByRoots(q.num, roots);
-  const bottom = reduceByRoots(q.den, roots);
-  const pivot = [...bottom].find(([, r]) => !rfIsZero(r));
-  if (!pivot) return null;
-  const k = rfConstantValue(rfDiv(top.get(pivot[0]) ?? RF0, pivot[1]));
-  if (!k) return null;
-  const keys = new Set([...top.keys(), ...bottom.keys()]);
-  const holds = [...keys].every((key) => rfIsZero(rfSub(top.get(key) ?? RF0, rfMul(rfConst(k), bottom.get(key) ?? RF0))));
-  return holds && (k.re.n !== 0n || k.im.n !== 0n) ? { ratio: k, how: 'exponential-form' } : null;
+  // Second try, as in sameFunction: a/b = K exactly when na*db - K*nb*da reduces to 0.
+  try {
+    const f = formedSides(a, b);
+    if (!f || isZero(f.na) || isZero(f.nb)) return null;
+    const [top, bottom] = reduceByRoots([within(polyMul(f.na, f.db)), within(polyMul(f.nb, f.da))], f.roots) as [Map<string, Poly>, Map<string, Poly>];
+    const pivot = [...bottom].find(([, p]) => !isZero(p));
+    if (!pivot) return null;
+    // K from the leading terms of one coefficient, then checked on every coefficient
+    const lt = leadingTerm(pivot[1])!;
+    const mt = top.get(pivot[0]) ? leadingTerm(top.get(pivot[0])!) : null;
+    if (!mt || monoKey(mt.m) !== monoKey(lt.m)) return null;
+    const k = gmul(mt.c, ginv(lt.c));
+    const keys = new Set([...top.keys(), ...bottom.keys()]);
+    const holds = [...keys].every((key) => isZero(polySub(top.get(key) ?? ZERO, polyScale(bottom.get(key) ?? ZERO, k))));
+    return holds && !gzero(k) ? { ratio: k, how: 'exponential-form' } : null;
+  } catch (e) {
+    if (e instanceof OverBudget) return null;
+    throw e;
+  }
 }

@@ -157,13 +157,19 @@ function expect(s: StepOf<'expect'>): RenderedStep {
       };
     }
     if (s.holds) {
+      const why = s.how === 'continuous-sign'
+        ? ': every square root in them has an argument with positive real part on the whole domain (shown exactly), so their ratio is continuous and its sign, read at one point of each connected piece of the domain, is +1 throughout'
+        : '';
       return {
-        text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: both sides have the same square and exponent exactly, and the same sign wherever ${s.name} is defined.`,
+        text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: both sides have the same square and exponent exactly, and the same sign wherever ${s.name} is defined${why}.`,
         latex: `${s.name} = ${s.expected.latex}`,
       };
     }
     if (s.how === 'differs') {
       return { text: `${s.name} = ${s.expected.text} does not hold (${basisText(s.basis)}): the squares or the exponentials of the two sides differ as functions${example}.`, latex: `${s.name} \\neq ${s.expected.latex}` };
+    }
+    if (s.how === 'continuous-sign') {
+      return { text: `${s.name} = ${s.expected.text} does not hold (${basisText(s.basis)}): the two sides have the same square and opposite signs on the whole domain (every square root in them has an argument with positive real part there, so the sign of their ratio, read at one point of each connected piece, cannot change)${example}.`, latex: `${s.name} = -(${s.expected.latex})` };
     }
     const where = s.regions.filter((r) => !r.holds).map((r) => r.condition.text).join(' or ');
     const ok = s.regions.filter((r) => r.holds).map((r) => r.condition.text).join(' or ');
