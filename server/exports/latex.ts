@@ -10,7 +10,7 @@
  */
 import type { StatementReport, WorksheetReport } from '../../shared/evaluation.js';
 import type { StatementReviewDto } from '../../shared/collaboration.js';
-import { renderStep } from '../../shared/record/render.js';
+import { nameLatex, renderStep } from '../../shared/record/render.js';
 
 /**
  * A typewriter glyph by its ASCII code (cmtt has every printable ASCII character at its
@@ -145,11 +145,10 @@ export function safeMath(latex: string): string {
   return latex;
 }
 
-/** A statement's name in math mode (names are letters, digits and underscores; anything else is left out). */
+/** A statement's name in math mode as the card and the record set it (nameLatex); anything but letters, digits and underscores is left out. */
 const mathName = (name: string) => {
-  let out = '';
-  for (const ch of name) out += /[A-Za-z0-9]/.test(ch) ? ch : ch === '_' ? '\\_' : '';
-  return `\\mathit{${out || '?'}}`;
+  const clean = name.replace(/[^A-Za-z0-9_]/g, '').replace(/^_+|_+$/g, '');
+  return clean ? nameLatex(clean) : '\\mathrm{?}';
 };
 
 const verdictWords: Record<string, string> = {

@@ -24,6 +24,18 @@ const list = (xs: readonly string[]) => (xs.length <= 1 ? xs.join('') : `${xs.sl
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
 const tex = (s: string) => `\\text{${s.replace(/[\\{}]/g, '')}}`;
 
+/**
+ * A name set in math: one letter italic (a variable), a longer name upright as one word
+ * (never an italic product of letters); an underscore makes a subscript. The card, the
+ * record's steps and the export all set names this way.
+ */
+export function nameLatex(name: string): string {
+  const [head, ...rest] = name.split('_');
+  const word = (w: string) => (/^[A-Za-z]$/.test(w) ? w : `\\mathrm{${w.replace(/[^A-Za-z0-9]/g, '')}}`);
+  return rest.length ? `${word(head!)}_{${word(rest.join(''))}}` : word(head!);
+}
+const mathName = nameLatex;
+
 function boxText(box: SampleBox): string {
   return box.map((b) => `${b.name} ${b.domain} with magnitudes log-spaced from ${digits(b.from, 2)} to ${digits(b.to, 2)}`).join('; ');
 }
@@ -132,12 +144,12 @@ const WRITTEN = {
 function result(s: StepOf<'result'>): RenderedStep {
   if (!s.formula) return { text: 'The integral diverges: no value.', latex: tex('divergent') };
   const value = s.value ? `; numerically ${complexApprox(s.value, 15)}` : s.scaled ? `; numerically ${scaledText(s.scaled, 12)}, beyond double precision, computed through its logarithm` : '';
-  if (s.written === 'numeric') return { text: `${s.name} ${complexApprox(s.value ?? { re: NaN, im: NaN }, 15)}, ${WRITTEN.numeric}.`, latex: `${s.name} ${complexApproxLatex(s.value ?? { re: NaN, im: NaN }, 15)}` };
+  if (s.written === 'numeric') return { text: `${s.name} ${complexApprox(s.value ?? { re: NaN, im: NaN }, 15)}, ${WRITTEN.numeric}.`, latex: `${mathName(s.name)} ${complexApproxLatex(s.value ?? { re: NaN, im: NaN }, 15)}` };
   const pieces = s.pieces.length ? `; piecewise: ${s.pieces.map((p) => `${p.formula.text} for ${p.condition.text}`).join('; ')}` : '';
   const check = s.verified
     ? `this form is the continuous branch (${basisText(s.basis)})`
     : 'WARNING: no written form reproduced the continuous branch at every point checked; treat it with care';
-  return { text: `${s.name} = ${s.formula.text}, written ${WRITTEN[s.written]}; ${check}${pieces}${value}.`, latex: `${s.name} = ${s.formula.latex}` };
+  return { text: `${s.name} = ${s.formula.text}, written ${WRITTEN[s.written]}; ${check}${pieces}${value}.`, latex: `${mathName(s.name)} = ${s.formula.latex}` };
 }
 
 function expect(s: StepOf<'expect'>): RenderedStep {
@@ -147,13 +159,13 @@ function expect(s: StepOf<'expect'>): RenderedStep {
     if (s.holds && s.how === 'identical') {
       return {
         text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: the two sides are the same rational function of the parameters and of the values of exp, sinh, cosh, sin and cos in them (no branch enters).`,
-        latex: `${s.name} = ${s.expected.latex}`,
+        latex: `${mathName(s.name)} = ${s.expected.latex}`,
       };
     }
     if (s.holds && s.how === 'exponential-form') {
       return {
         text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: ${EXPONENTIAL_FORM}.`,
-        latex: `${s.name} = ${s.expected.latex}`,
+        latex: `${mathName(s.name)} = ${s.expected.latex}`,
       };
     }
     if (s.holds) {
@@ -162,32 +174,32 @@ function expect(s: StepOf<'expect'>): RenderedStep {
         : '';
       return {
         text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: both sides have the same square and exponent exactly, and the same sign wherever ${s.name} is defined${why}.`,
-        latex: `${s.name} = ${s.expected.latex}`,
+        latex: `${mathName(s.name)} = ${s.expected.latex}`,
       };
     }
     if (s.how === 'differs') {
-      return { text: `${s.name} = ${s.expected.text} does not hold (${basisText(s.basis)}): the squares or the exponentials of the two sides differ as functions${example}.`, latex: `${s.name} \\neq ${s.expected.latex}` };
+      return { text: `${s.name} = ${s.expected.text} does not hold (${basisText(s.basis)}): the squares or the exponentials of the two sides differ as functions${example}.`, latex: `${mathName(s.name)} \\neq ${s.expected.latex}` };
     }
     if (s.how === 'continuous-sign') {
-      return { text: `${s.name} = ${s.expected.text} does not hold (${basisText(s.basis)}): the two sides have the same square and opposite signs on the whole domain (every square root in them has an argument with positive real part there, so the sign of their ratio, read at one point of each connected piece, cannot change)${example}.`, latex: `${s.name} = -(${s.expected.latex})` };
+      return { text: `${s.name} = ${s.expected.text} does not hold (${basisText(s.basis)}): the two sides have the same square and opposite signs on the whole domain (every square root in them has an argument with positive real part there, so the sign of their ratio, read at one point of each connected piece, cannot change)${example}.`, latex: `${mathName(s.name)} = -(${s.expected.latex})` };
     }
     const where = s.regions.filter((r) => !r.holds).map((r) => r.condition.text).join(' or ');
     const ok = s.regions.filter((r) => r.holds).map((r) => r.condition.text).join(' or ');
     return {
       text: `${s.name} = ${s.expected.text} does not hold${where ? ` for ${where}` : ''}${ok ? ` (it holds for ${ok})` : ''}, ${basisText(s.basis)}: the two sides have the same square but opposite signs there, where a principal root of the expected form has crossed its cut${example}.`,
-      latex: `${s.name} \\neq ${s.expected.latex}${where ? `\\quad (${s.regions.filter((r) => !r.holds).map((r) => r.condition.latex).join(',\\ ')})` : ''}`,
+      latex: `${mathName(s.name)} \\neq ${s.expected.latex}${where ? `\\quad (${s.regions.filter((r) => !r.holds).map((r) => r.condition.latex).join(',\\ ')})` : ''}`,
     };
   }
   if (s.holds) {
     return {
       text: `${s.name} = ${s.expected.text} holds: ${s.exact ? 'the difference simplifies to 0 exactly, and ' : ''}the values agree (${basisText(s.basis)}; largest relative difference ${s.worst === null ? 'not finite' : approx(s.worst, 3)}).`,
-      latex: `${s.name} = ${s.expected.latex}`,
+      latex: `${mathName(s.name)} = ${s.expected.latex}`,
     };
   }
   const c = s.counterexample;
   return {
     text: `${s.name} = ${s.expected.text} does not hold${c ? `: at ${Object.keys(c.at).length ? pointText(c.at) : 'the computed value'}, ${s.name} ${complexApprox(c.lhs, 12)} but the expected value is ${c.rhs ? complexApprox(c.rhs, 12) : 'not a finite number'}` : ''}.`,
-    latex: `${s.name} \\neq ${s.expected.latex}`,
+    latex: `${mathName(s.name)} \\neq ${s.expected.latex}`,
   };
 }
 
@@ -209,7 +221,7 @@ function numericCheck(s: StepOf<'numeric-check'>): RenderedStep {
   const value = s.value ? complexApprox(s.value, 15) : 'no value';
   return {
     text: `${s.name}${where} by nested trapezoidal quadrature (on a box cut where |integrand| has fallen by e^-${digits(s.truncation, 3)} at every level, the step halved until two levels agree) over ${plural(s.vars, 'variable')} ${contour}${rot}: ${value}, error estimate ${approx(s.errorEstimate ?? NaN, 3)}, ${s.evaluations} integrand evaluations, ${s.timeMs} ms. The integrand was read by evaluation only (its exponent polarized into numbers and checked against the whole integrand at 5 random points, largest relative difference ${approx(s.integrandCheck, 3)}).`,
-    latex: s.value ? `${s.name} ${complexApproxLatex(s.value, 12)}` : tex('no value'),
+    latex: s.value ? `${mathName(s.name)} ${complexApproxLatex(s.value, 12)}` : tex('no value'),
   };
 }
 
@@ -299,7 +311,7 @@ function sheet(s: StepOf<'sheet'>): RenderedStep {
     : 'minus the principal sheet (the end value is minus the closed form with the principal 1/sqrt(det A))';
   return {
     text: `At the end point ${pointText(s.at)} the continued sqrt(det A) ${complexApprox(s.continued, 10)} and the principal one ${complexApprox(s.principal, 10)}: ${s.name} ends on ${words}${s.onCut ? '; the end point lies on the cut itself, where "principal" means arg(det A) = pi' : ''}. ${s.name} ${complexApprox(s.value, 15)}${s.closed ? `, the closed form ${s.closed.text}` : ''}.`,
-    latex: s.closed ? `${s.name} = ${s.closed.latex}` : `${s.name} ${complexApproxLatex(s.value, 12)}`,
+    latex: s.closed ? `${mathName(s.name)} = ${s.closed.latex}` : `${mathName(s.name)} ${complexApproxLatex(s.value, 12)}`,
   };
 }
 
@@ -312,7 +324,7 @@ function comparison(s: StepOf<'comparison'>): RenderedStep {
   const how = s.how === 'exponential-form' ? `: ${EXPONENTIAL_FORM}, up to this constant factor` : s.how === 'values' ? ': the same rational function of the parameters and of the values of exp, sinh, cosh, sin and cos in them, up to this constant factor' : '';
   return {
     text: `${s.a}/${s.b} = ${ratio}${s.constant ? `, constant (${basisText(s.basis)}${how})` : `; not constant (${basisText(s.basis)})`}.`,
-    latex: `\\frac{${s.a}}{${s.b}} ${s.ratio ? `= ${s.ratio.latex}` : complexApproxLatex(s.ratioValue, 12)}`,
+    latex: `\\frac{${mathName(s.a)}}{${mathName(s.b)}} ${s.ratio ? `= ${s.ratio.latex}` : complexApproxLatex(s.ratioValue, 12)}`,
   };
 }
 
@@ -327,14 +339,14 @@ export function quarterPhase(m: number): string {
 
 function comparisonVerdict(s: StepOf<'comparison-verdict'>): RenderedStep {
   switch (s.verdict) {
-    case 'equal': return { text: 'Verdict: equal (ratio 1).', latex: `${s.a} = ${s.b}` };
+    case 'equal': return { text: 'Verdict: equal (ratio 1).', latex: `${mathName(s.a)} = ${mathName(s.b)}` };
     case 'phase': return {
       text: `Verdict: equal up to the constant phase ${s.phaseOverPiQuarter !== null ? `${quarterPhase(s.phaseOverPiQuarter)} (${s.phaseOverPiQuarter} times pi/4)` : `exp(i*theta), theta ${approx(s.phase ?? NaN, 8)}, not a multiple of pi/4`}.`,
-      latex: s.phaseOverPiQuarter !== null ? `${s.a} = e^{${s.phaseOverPiQuarter} i\\pi/4} ${s.b}` : `${s.a} = e^{i\\theta} ${s.b}`,
+      latex: s.phaseOverPiQuarter !== null ? `${mathName(s.a)} = e^{${s.phaseOverPiQuarter} i\\pi/4} ${mathName(s.b)}` : `${mathName(s.a)} = e^{i\\theta} ${mathName(s.b)}`,
     };
     case 'different': return {
       text: `Verdict: different${s.example ? `; for example at ${s.example.at ? pointText(s.example.at) : 'the computed values'} the ratio is ${complexApprox(s.example.ratio, 10)}` : ''}.`,
-      latex: `${s.a} \\neq ${s.b}`,
+      latex: `${mathName(s.a)} \\neq ${mathName(s.b)}`,
     };
   }
 }
@@ -345,7 +357,7 @@ function derived(s: StepOf<'derived'>): RenderedStep {
     : s.usesResults ? '; no closed form reproduced the branch-faithful value at every point checked, so the definition is kept as written' : '';
   return {
     text: `${s.name} = ${s.definition.text}${closed}${s.value ? `; numerically ${complexApprox(s.value, 15)}` : ''}.`,
-    latex: `${s.name} = ${(s.closed ?? s.definition).latex}`,
+    latex: `${mathName(s.name)} = ${(s.closed ?? s.definition).latex}`,
   };
 }
 
@@ -368,7 +380,7 @@ function derivative(s: StepOf<'derivative'>): RenderedStep {
   const logs = s.logDerivatives.length ? `, with ${s.logDerivatives.map((l) => `d log ${l.name}/d${s.param} = ${l.formula.text}`).join('; ')}` : '';
   return {
     text: `${s.name} = d/d${s.param} (${s.of.text}) = ${s.result.text}, exactly by the chain rule${logs}; checked against central differences at ${plural(s.checks.count, 'point')} (largest relative difference ${approx(s.checks.worst, 3)}).`,
-    latex: `${s.name} = \\frac{\\partial}{\\partial ${s.param}} \\left(${s.of.latex}\\right) = ${s.result.latex}`,
+    latex: `${mathName(s.name)} = \\frac{\\partial}{\\partial ${s.param}} \\left(${s.of.latex}\\right) = ${s.result.latex}`,
   };
 }
 
@@ -414,7 +426,7 @@ function modeProduct(s: StepOf<'mode-product'>): RenderedStep {
   const v = s.value ? ` ${complexApprox(s.value, 15)}` : '';
   return {
     text: `${s.factorisation ? factorisationText(s.factorisation, s.leading.text, n) : ''}P(${n}) = ${split}; by ${list(uses)}, ${s.name} = ${s.result.text}${v}, exactly. ${anomaly}.`,
-    latex: `${s.name} = ${s.result.latex}`,
+    latex: `${mathName(s.name)} = ${s.result.latex}`,
   };
 }
 
@@ -431,7 +443,7 @@ function functionalDeterminant(s: StepOf<'functional-determinant'>): RenderedSte
     : `${value}, by integrating y'' = V y with fourth-order Runge-Kutta, halving the step until two solves agree (${plural(s.ode?.steps ?? 0, 'step')}, relative difference ${approx(s.ode?.difference ?? 0, 3)}; numeric, not proved)`;
   return {
     text: `${s.name}: det(${op}) ${where} ${res}.`,
-    latex: `${s.name} = ${s.result?.latex ?? (s.value ? complexApproxLatex(s.value, 12) : '')}`,
+    latex: `${mathName(s.name)} = ${s.result?.latex ?? (s.value ? complexApproxLatex(s.value, 12) : '')}`,
   };
 }
 
@@ -473,7 +485,7 @@ function timeSlicing(s: StepOf<'time-slicing'>): RenderedStep {
   if (s.checks) parts.push(`checked against ${s.zeroMode ? 'N times a cofactor of the explicit matrix (matrix-tree theorem) by LU elimination' : 'the determinant of the explicit matrix by LU elimination'} at ${plural(s.checks.slices.length, 'slice count')} (${s.checks.slices.join(', ')}) and ${plural(s.checks.points, 'point')}: worst relative difference ${approx(s.checks.worst, 3)}`);
   return {
     text: `${parts.join('; ')}.`,
-    latex: `${s.name} = ${s.result?.latex ?? (s.value ? complexApproxLatex(s.value, 12) : '')}`,
+    latex: `${mathName(s.name)} = ${s.result?.latex ?? (s.value ? complexApproxLatex(s.value, 12) : '')}`,
   };
 }
 
@@ -502,9 +514,9 @@ function limit(s: StepOf<'limit'>): RenderedStep {
   const checks = s.checks ? ` (checked numerically at ${plural(s.checks.count, 'point')}, largest relative difference ${approx(s.checks.worst, 3)})` : '';
   switch (s.outcome) {
     case 'unknown':
-      return { text: `As ${arrow}, the limit of ${s.name} is unknown: ${s.reason ? `the exact expansion could not decide it (${s.reason})` : 'no exact expansion was found'}${s.value ? `; near the end point the value is ${complexApprox(s.value, 10)}, which is not a limit` : ''}.`, latex: `\\lim_{${s.param} \\to ${latexTo}} ${s.name}\\ ${tex('unknown')}` };
+      return { text: `As ${arrow}, the limit of ${s.name} is unknown: ${s.reason ? `the exact expansion could not decide it (${s.reason})` : 'no exact expansion was found'}${s.value ? `; near the end point the value is ${complexApprox(s.value, 10)}, which is not a limit` : ''}.`, latex: `\\lim_{${s.param} \\to ${latexTo}} ${mathName(s.name)}\\ ${tex('unknown')}` };
     case 'divergent':
-      return { text: `As ${arrow}, ${s.name} diverges${f ? ` like ${f.text}` : ''} (${basisText(s.basis)}).`, latex: `${s.name} \\sim ${f?.latex ?? '\\infty'}` };
+      return { text: `As ${arrow}, ${s.name} diverges${f ? ` like ${f.text}` : ''} (${basisText(s.basis)}).`, latex: `${mathName(s.name)} \\sim ${f?.latex ?? '\\infty'}` };
     case 'oscillating':
       return { text: `As ${arrow}, ${s.name} has no limit: it oscillates${f ? ` like ${f.text}` : ''} (${basisText(s.basis)}).`, latex: tex('no limit') };
     default: {
@@ -544,7 +556,7 @@ function smallParameterForm(s: StepOf<'small-parameter-form'>): RenderedStep {
   const bv = s.boundValue !== null ? ` (here ${approx(s.boundValue, 6)})` : '';
   return {
     text: `For small a (Re(1/a) large): ${s.name} = ${s.leading.text} + R*exp(g)*a^(-1/2), the leading term of the resummed side (${m0}, g the n-free part of the exponent); the other terms m != m0 make up R, |R| <= ${s.bound.text}, ${symbols}${bv}, from the distance of every other m to the peak, summed as a geometric series on each side. The remainder is exponentially small in 1/a: beyond all orders of any power of a.`,
-    latex: `${s.name} \\approx ${s.leading.latex},\\quad |R| \\le ${s.bound.latex}`,
+    latex: `${mathName(s.name)} \\approx ${s.leading.latex},\\quad |R| \\le ${s.bound.latex}`,
   };
 }
 
@@ -562,14 +574,14 @@ function odeCheck(s: StepOf<'ode-check'>): RenderedStep {
   const what = s.conditions === 'dirichlet' ? "y2(L)/L with y2(0) = 0, y2'(0) = 1 (Gel'fand-Yaglom)" : `tr M ${s.conditions === 'periodic' ? '- 2' : '+ 2'} from the monodromy matrix M over one turn`;
   return {
     text: `Checked${Object.keys(s.at).length ? ` at ${pointText(s.at)}` : ''} by solving y'' = V(t) y with fourth-order Runge-Kutta (${plural(s.steps, 'step')}; ${approx(s.stepDifference, 2)} from the solve with half as many), independently of the closed form: ${what} ${complexApprox(s.value, 12)} against the closed form ${complexApprox(s.closed, 12)}, relative difference ${approx(s.relativeDifference, 3)}, ${s.agrees ? 'within' : 'NOT within'} the tolerance ${approx(s.tolerance, 2)}.`,
-    latex: `${s.name} ${complexApproxLatex(s.value, 12)}\\ ${tex(s.agrees ? 'agrees' : 'disagrees')}`,
+    latex: `${mathName(s.name)} ${complexApproxLatex(s.value, 12)}\\ ${tex(s.agrees ? 'agrees' : 'disagrees')}`,
   };
 }
 
 function seriesCheck(s: StepOf<'series-check'>): RenderedStep {
   return {
     text: `Checked${Object.keys(s.at).length ? ` at ${pointText(s.at)}` : ''} from the definitions (partial sums and products, no resummation or modular transformation; ${plural(s.terms, 'term')}, the last of size ${approx(s.lastTerm, 2)}): ${complexApprox(s.value, 12)} against the closed form ${complexApprox(s.closed, 12)}, relative difference ${approx(s.relativeDifference, 3)}, ${s.agrees ? 'within' : 'NOT within'} the tolerance ${approx(s.tolerance, 2)}.`,
-    latex: `${s.name} ${complexApproxLatex(s.value, 12)}\\ ${tex(s.agrees ? 'agrees' : 'disagrees')}`,
+    latex: `${mathName(s.name)} ${complexApproxLatex(s.value, 12)}\\ ${tex(s.agrees ? 'agrees' : 'disagrees')}`,
   };
 }
 

@@ -1,5 +1,5 @@
 import type { StatementReport, Step, StepKind, StepOf } from '@shared/evaluation';
-import { renderStep } from '@shared/record/render';
+import { nameLatex, renderStep } from '@shared/record/render';
 
 /** How a badge reads: an icon and a word always, a tone for colour on top. (The review badge is the card's own button.) */
 export interface BadgeView {
@@ -221,15 +221,8 @@ export function relationOf(st: StatementReport): '=' | '~' {
   return lim && (lim.outcome === 'asymptotic' || lim.outcome === 'divergent') ? '~' : '=';
 }
 
-/**
- * A name set in math: one letter italic (a variable), a longer name upright as one word
- * (never an italic product of letters); an underscore makes a subscript.
- */
-export function nameLatex(name: string): string {
-  const [head, ...rest] = name.split('_');
-  const word = (w: string) => (/^[A-Za-z]$/.test(w) ? w : `\\mathrm{${w.replace(/[^A-Za-z0-9]/g, '')}}`);
-  return rest.length ? `${word(head!)}_{${word(rest.join(''))}}` : word(head!);
-}
+/** A name set in math (one letter italic, longer names upright): shared with the record's steps and the export. */
+export { nameLatex };
 
 /** The card's formula: the result with its name and relation, as a physicist writes it. */
 export function resultLatex(st: StatementReport): string {
