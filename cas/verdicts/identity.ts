@@ -95,7 +95,7 @@ function formedSides(a: Expr, b: Expr): { na: Poly; da: Poly; nb: Poly; db: Poly
   return { na: formed[0].num, da: formed[0].den, nb: formed[1].num, db: formed[1].den, roots };
 }
 
-/** Whether the exponential form changes anything (sinh, cosh, asinh, sqrt or half powers are present). */
+/** Whether the exponential form may change anything: sinh, cosh, asinh or sqrt, or any power (a half power among them), is present. */
 function formedDiffers(a: Expr, b: Expr): boolean {
   const has = (e: Expr): boolean =>
     e.t === 'call' ? ['sinh', 'cosh', 'asinh', 'sqrt'].includes(e.fn) || e.args.some(has)
