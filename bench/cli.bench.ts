@@ -3,8 +3,9 @@
  * (scripts/build-cli.mjs), then times, each against its aim:
  *  - `npm run -s sheetwise -- eval` on a one-integral worksheet (aim: median under 150 ms)
  *    and on each demo worksheet (under 300 ms), in ms and as a ratio to a bare
- *    `node -e 0` started in the same run; with, for reference, npm's own share (the same
- *    command answering a usage error) and the launcher started without npm;
+ *    `node -e 0` started in the same run; with, for reference, npm alone running a command
+ *    that does nothing, npm and the launcher answering a usage error, and the launcher and
+ *    each demo started without npm (as the npm script starts node);
  *  - `sheetwise check` on a folder of 100 worksheets (under 10 s).
  * Prints a `BENCH_JSON` line for scripts/bench.mjs.
  */
@@ -39,12 +40,12 @@ for (let k = 0; k < 100; k++) {
   }
 }
 
-function time(cmd: string, args: string[], runs: number): { median: number; min: number; max: number; statuses: number[] } {
+function time(cmd: string, args: string[], runs: number, env: NodeJS.ProcessEnv = process.env): { median: number; min: number; max: number; statuses: number[] } {
   const ts: number[] = [];
   const statuses = new Set<number>();
   for (let r = 0; r < runs; r++) {
     const t0 = performance.now();
-    const p = spawnSync(cmd, args, { cwd: root, encoding: 'utf8', timeout: 120_000 });
+    const p = spawnSync(cmd, args, { cwd: root, encoding: 'utf8', timeout: 120_000, env });
     ts.push(performance.now() - t0);
     statuses.add(p.status ?? -1);
   }
@@ -56,10 +57,14 @@ const load = () => loadavg()[0]!.toFixed(2);
 const loadBefore = load();
 const RUNS = 15;
 const bare = time(process.execPath, ['-e', '0'], RUNS);
+const npmAlone = time('npm', ['run', '-s', 'env', '--', 'true'], RUNS);
 const npmUsage = time('npm', ['run', '-s', 'sheetwise'], RUNS);
-const direct = time(process.execPath, ['cas/cli/sheetwise.mjs', 'eval', one], RUNS);
+// without npm, as its script starts node: without NODE_EXTRA_CA_CERTS (see package.json)
+const scriptEnv = { ...process.env };
+delete scriptEnv['NODE_EXTRA_CA_CERTS'];
+const direct = time(process.execPath, ['cas/cli/sheetwise.mjs', 'eval', one], RUNS, scriptEnv);
 const oneRun = time('npm', ['run', '-s', 'sheetwise', '--', 'eval', one], RUNS);
-const demoRuns = demos.map((d) => ({ ...d, t: time('npm', ['run', '-s', 'sheetwise', '--', 'eval', d.file], 7) }));
+const demoRuns = demos.map((d) => ({ ...d, t: time('npm', ['run', '-s', 'sheetwise', '--', 'eval', d.file], 7), alone: time(process.execPath, ['cas/cli/sheetwise.mjs', 'eval', d.file], 7, scriptEnv) }));
 const check = time('npm', ['run', '-s', 'sheetwise', '--', 'check', folder], 3);
 const loadAfter = load();
 rmSync(dir, { recursive: true, force: true });
@@ -74,10 +79,12 @@ const line = (what: string, t: { median: number; min: number; max: number }, aim
 };
 console.log(`${cpus().length} cores; load average ${loadBefore} before, ${loadAfter} after; median of ${RUNS} runs (7 per demo, 3 for check)`);
 line('node -e 0 (a bare start, for the ratios)', bare, null, false);
+line('npm run -s env -- true (npm alone: a command that does nothing)', npmAlone, null);
 line('npm run -s sheetwise (usage error: npm and node, no evaluation)', npmUsage, null);
 line('node cas/cli/sheetwise.mjs eval, one integral (without npm)', direct, null);
 line('npm run -s sheetwise -- eval, one integral', oneRun, 150);
 for (const d of demoRuns) line(`  demo: ${d.title}`, d.t, 300);
+for (const d of demoRuns) line(`  without npm: ${d.title}`, d.alone, null);
 line('npm run -s sheetwise -- check, a folder of 100 worksheets', check, 10_000, false);
 const failed = [...oneRun.statuses, ...demoRuns.flatMap((d) => d.t.statuses)].filter((s) => s !== 0);
 if (failed.length) console.log(`(some runs exited with ${[...new Set(failed)].join(', ')})`);

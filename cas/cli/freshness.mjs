@@ -3,7 +3,7 @@
 import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 
-const OUTPUTS = ['dist/cli/main.mjs', 'dist/cli/worker.mjs'];
+const OUTPUTS = ['dist/cli/main.mjs', 'dist/cli/worker.cjs', 'dist/cli/core.cjs'];
 const SOURCES = ['cas', 'shared'];
 
 function newestBelow(dir) {

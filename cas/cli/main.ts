@@ -82,7 +82,7 @@ function options(argv: string[]): Options {
 // ── evaluation threads ──
 
 const fromSource = import.meta.url.endsWith('.ts');
-const workerUrl = new URL(fromSource ? './worker.ts' : './worker.mjs', import.meta.url);
+const workerUrl = new URL(fromSource ? './worker.ts' : './worker.cjs', import.meta.url);
 /**
  * Run from source (tsx, the fallback when the build is missing or stale), a thread
  * registers tsx's loader itself before it imports worker.ts (Node 20 does not carry
@@ -114,7 +114,7 @@ class Runner {
     const w = newWorker();
     w.on('message', (m: CliMessage) => {
       const c = this.current;
-      if (!c || m.id !== c.id) return;
+      if (!c || m.type === 'code-cache-saved' || m.id !== c.id) return;
       switch (m.type) {
         case 'parsed': c.handlers.onParsed?.(m.engine, m.total); break;
         case 'start': c.handlers.onStart?.(m.index, m.line); break;
@@ -151,6 +151,18 @@ class Runner {
   }
 }
 
+/**
+ * The first thread is started as soon as this module runs, before the arguments are read:
+ * it takes ~40 ms to come up, and this thread has nothing else to wait for meanwhile.
+ */
+let early: Runner | null = ['eval', 'check'].includes(process.argv[2] ?? '') ? new Runner() : null;
+function newRunner(): Runner {
+  const r = early ?? new Runner();
+  early = null;
+  runners.push(r);
+  return r;
+}
+
 // ── signals ──
 
 const SIGNAL_EXIT: Record<string, number> = { SIGINT: 130, SIGTERM: 143 };
@@ -174,8 +186,7 @@ function progress(o: Options, file: string, line: number): void {
 
 async function evalFile(o: Options, file: string): Promise<number> {
   const source = read(file);
-  const runner = new Runner();
-  runners.push(runner);
+  const runner = newRunner();
   const done = new Map<number, { report: StatementReport; text: string }>();
   let engine = '';
   let total = 0;
@@ -217,7 +228,7 @@ async function checkFolder(o: Options, dir: string): Promise<number> {
   if (!isDir) { process.stderr.write(`Cannot read the folder ${dir}.\n`); return 2; }
   const files = worksheetsBelow(dir);
   const threads = Math.max(1, Math.min(o.jobs || availableParallelism(), files.length));
-  for (let k = 0; k < threads && files.length; k++) runners.push(new Runner());
+  for (let k = 0; k < threads && files.length; k++) newRunner();
   const reports: (WorksheetReport | null)[] = files.map(() => null);
   let printed = 0;
   const line = (r: WorksheetReport) => `${r.ok ? 'ok     ' : 'NOT ok '} ${r.file}`;

@@ -11,9 +11,13 @@ export interface CliJob {
   text: boolean;
 }
 
+/** Sent by the build (scripts/build-cli.mjs) after its warm-up jobs: write the code cache (builtWorker.ts). */
+export interface SaveCodeCache { type: 'save-code-cache' }
+
 export type CliMessage =
   | { type: 'parsed'; id: number; engine: string; total: number }
   | { type: 'start'; id: number; index: number; line: number }
   | { type: 'statement'; id: number; index: number; report: StatementReport; text: string }
   | { type: 'done'; id: number; report: WorksheetReport }
-  | { type: 'failed'; id: number; message: string };
+  | { type: 'failed'; id: number; message: string }
+  | { type: 'code-cache-saved'; bytes: number };

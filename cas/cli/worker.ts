@@ -1,62 +1,9 @@
 /**
- * The command line's evaluation thread: it evaluates the worksheets the main thread
- * sends, one at a time, and posts each statement's report (with its readable text) as
- * soon as it is made. The main thread stays free to answer SIGINT/SIGTERM and stops
- * this thread with worker.terminate(), which V8 honours even inside a long statement.
+ * The command line's evaluation thread run from source (through tsx, when dist/cli/ is
+ * missing or stale): each message from the main thread is one job (job.ts).
  */
 import { parentPort } from 'node:worker_threads';
-import { evaluateWorksheet } from '../worksheet.js';
-import { parseWorksheet } from '../lang/parse.js';
-import { ENGINE_VERSION } from '../version.js';
-import { blankReport } from '../statements/context.js';
-import type { StatementReport } from '../../shared/evaluation.js';
-import { statementLines } from './format.js';
+import { runJob } from './job.js';
 import type { CliJob, CliMessage } from './protocol.js';
-import { guarded } from '../vm-guard.js';
 
-
-const post = (m: CliMessage) => parentPort!.postMessage(m);
-
-parentPort!.on('message', (job: CliJob) => {
-  try {
-    const limit = job.limitMs > 0 ? job.limitMs : Infinity;
-    const parsed = guarded(() => parseWorksheet(job.source), limit);
-    const lines = job.source.split(/\r?\n/);
-    post({ type: 'parsed', id: job.id, engine: ENGINE_VERSION, total: parsed.lines.length });
-    const send = (index: number, r: StatementReport) => {
-      // the source text is set on the whole report at the end; a partial report needs it now
-      r.source = statementText(lines[r.line - 1] ?? '');
-      post({ type: 'statement', id: job.id, index, report: r, text: job.text ? statementLines(r).join('\n') : '' });
-    };
-    // lines that did not parse are not told to onStatementDone: sent here, so a stopped run still shows them
-    parsed.lines.forEach((entry, index) => {
-      if (entry.ok) return;
-      const r = blankReport(entry.line, entry.kind as StatementReport['kind'], null);
-      r.status = 'error';
-      r.error = entry.error;
-      send(index, r);
-    });
-    const report = evaluateWorksheet(job.source, {
-      parsed,
-      file: job.file,
-      timeLimitMsPerStatement: limit,
-      guard: guarded,
-      onStatementStart: (index, line) => post({ type: 'start', id: job.id, index, line }),
-      onStatementDone: send,
-    });
-    post({ type: 'done', id: job.id, report });
-  } catch (err) {
-    post({ type: 'failed', id: job.id, message: err instanceof Error ? err.message : String(err) });
-  }
-});
-
-/** A line without its trailing comment, as the worksheet core writes it. */
-function statementText(line: string): string {
-  let quoted = false;
-  for (let k = 0; k < line.length; k++) {
-    const ch = line[k];
-    if (ch === '"') quoted = !quoted;
-    else if (ch === '#' && !quoted) return line.slice(0, k).trim();
-  }
-  return line.trim();
-}
+parentPort!.on('message', (job: CliJob) => runJob(job, (m: CliMessage) => parentPort!.postMessage(m)));

@@ -6,11 +6,12 @@
 import type { Expr } from '../lang/ast.js';
 import type { Domain } from '../../shared/evaluation.js';
 import { gadd, gmul, ginv, gq, gsub, gzero, q, qFromDecimal, qsign, type GQ } from './rational.js';
+import { identifierOrder } from '../expr/identifierOrder.js';
 
 /** Monomial: sorted "name^exp" pairs; coefficient exact. */
 export type Laurent = Map<string, { exps: Map<string, number>; c: GQ }>;
 
-const monoKey = (m: Map<string, number>) => [...m].filter(([, e]) => e !== 0).sort(([a], [b]) => a.localeCompare(b)).map(([n, e]) => `${n}^${e}`).join('*');
+const monoKey = (m: Map<string, number>) => [...m].filter(([, e]) => e !== 0).sort(([a], [b]) => identifierOrder(a, b)).map(([n, e]) => `${n}^${e}`).join('*');
 
 function single(c: GQ, exps = new Map<string, number>()): Laurent { return new Map([[monoKey(exps), { exps, c }]]); }
 

@@ -13,6 +13,7 @@ import type { GQ, Q } from '../exact/q.js';
 import { qIsZero, qsign, qabs, gIsOne, gneg, qToNumber } from '../exact/q.js';
 import { squareFree, isConstant, constantTerm, polyScale, type Poly, type Term } from '../exact/poly.js';
 import type { RatFunc } from '../exact/ratfunc.js';
+import { identifierOrder } from './identifierOrder.js';
 
 /** A rational: 2, -3/4. */
 export function qExpr(x: Q): Expr {
@@ -69,7 +70,7 @@ function termParts(t: Term): [boolean, Expr] {
 
 /** A polynomial as a sum, terms by ascending total degree, ties in the variables' order. */
 export function polyExpr(p: Poly): Expr {
-  const terms = [...p.terms.values()].sort((a, b) => termDegree(a) - termDegree(b) || keyOf(a).localeCompare(keyOf(b)));
+  const terms = [...p.terms.values()].sort((a, b) => termDegree(a) - termDegree(b) || identifierOrder(keyOf(a), keyOf(b)));
   if (terms.length === 0) return num(0);
   const parts = terms.map(termParts);
   // -(a + b) reads better than -a - b when every term is negative and there are several
@@ -109,7 +110,7 @@ export function factoredPolyExpr(p: Poly): Expr {
 
 /** Multiply numerator and denominator by the unit (1, -1, i, -i) that makes the denominator's first term positive: 30 + i*t, not -30*i + t. */
 function unitNormal(r: RatFunc): RatFunc {
-  const first = [...r.den.terms.values()].sort((a, b) => termDegree(a) - termDegree(b) || keyOf(a).localeCompare(keyOf(b)))[0];
+  const first = [...r.den.terms.values()].sort((a, b) => termDegree(a) - termDegree(b) || identifierOrder(keyOf(a), keyOf(b)))[0];
   if (!first) return r;
   const c = first.c;
   const units: GQ[] = [
