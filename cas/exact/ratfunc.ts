@@ -90,14 +90,33 @@ export const rfToString = (a: RatFunc): string =>
 const size = (a: RatFunc) => a.num.terms.size + a.den.terms.size;
 
 /**
+ * Arithmetic for fromExpr. Without lowest terms (for callers that only compare
+ * cross products, such as the identity proof's second try) no gcd is taken: a
+ * multivariate gcd can take very long, while the quotient stays exact either way
+ * (a constant denominator is still divided out).
+ */
+interface RatOps { add(a: RatFunc, b: RatFunc): RatFunc; mul(a: RatFunc, b: RatFunc): RatFunc; div(a: RatFunc, b: RatFunc): RatFunc; pow(a: RatFunc, e: number): RatFunc }
+const REDUCED: RatOps = { add: rfAdd, mul: rfMul, div: rfDiv, pow: rfPow };
+const quotient = (num: Poly, den: Poly): RatFunc => (isConstant(den) ? rfPoly(polyScale(num, ginv(constantTerm(den)))) : { num, den });
+const UNREDUCED: RatOps = {
+  add: (a, b) => (rfIsZero(a) ? b : rfIsZero(b) ? a : polyEquals(a.den, b.den) ? quotient(polyAdd(a.num, b.num), a.den)
+    : quotient(polyAdd(polyMul(a.num, b.den), polyMul(b.num, a.den)), polyMul(a.den, b.den))),
+  mul: (a, b) => (rfIsZero(a) || rfIsZero(b) ? RF0 : quotient(polyMul(a.num, b.num), polyMul(a.den, b.den))),
+  div: (a, b) => quotient(polyMul(a.num, b.den), polyMul(a.den, b.num)),
+  pow: (a, e) => (e >= 0 ? quotient(polyPow(a.num, e), polyPow(a.den, e)) : quotient(polyPow(a.den, -e), polyPow(a.num, -e))),
+};
+
+/**
  * The expression as a rational function with exact coefficients, or null when it is
  * not one (exp, sqrt, ... ; non-integer or |n| > 64 powers; the constant e; division
  * by zero) or when it would exceed MAX_TERMS terms.
  * realVars: when given, only these names may occur (others give null), so callers that
- * take Re/Im parts can insist on real parameters.
+ * take Re/Im parts can insist on real parameters. lowestTerms = false: an exact quotient
+ * not brought to lowest terms (see UNREDUCED), so equal functions may have unequal parts.
  */
-export function fromExpr(expr: Expr, realVars?: ReadonlySet<string> | readonly string[]): RatFunc | null {
+export function fromExpr(expr: Expr, realVars?: ReadonlySet<string> | readonly string[], lowestTerms = true): RatFunc | null {
   const allowed = realVars ? new Set(realVars) : null;
+  const ops = lowestTerms ? REDUCED : UNREDUCED;
   const guard = (r: RatFunc | null) => (r && size(r) > MAX_TERMS ? null : r);
   const go = (e: Expr): RatFunc | null => {
     switch (e.t) {
@@ -124,17 +143,17 @@ export function fromExpr(expr: Expr, realVars?: ReadonlySet<string> | readonly s
           // refuse before expanding when the power could not fit
           if (powerTermsBound(a.num, Math.abs(n)) + powerTermsBound(a.den, Math.abs(n)) > MAX_TERMS) return null;
           if (isConstant(a.num) && isConstant(a.den)) return rfConst(gpow(constantTerm(a.num), n));
-          return guard(rfPow(a, n));
+          return guard(ops.pow(a, n));
         }
         const a = go(e.a);
         if (!a) return null;
         const b = go(e.b);
         if (!b) return null;
         switch (e.op) {
-          case '+': return guard(rfAdd(a, b));
-          case '-': return guard(rfSub(a, b));
-          case '*': return guard(rfMul(a, b));
-          case '/': return rfIsZero(b) ? null : guard(rfDiv(a, b));
+          case '+': return guard(ops.add(a, b));
+          case '-': return guard(ops.add(a, rfNeg(b)));
+          case '*': return guard(ops.mul(a, b));
+          case '/': return rfIsZero(b) ? null : guard(ops.div(a, b));
         }
       }
     }

@@ -18,6 +18,7 @@ import { complexApprox, complexApproxLatex, pointText } from '../../shared/recor
 import { tidy } from '../expr/tidy.js';
 import { neg } from '../expr/build.js';
 import { rewriteChecked } from '../algebra/adapter.js';
+import { rootsReduced } from '../expr/rootsReduced.js';
 import { samplePoints, type Point } from '../domains/sample.js';
 import { numericForm, gaussianValue } from '../gaussian/numericModel.js';
 import { complexText, polar } from '../gaussian/describe.js';
@@ -102,7 +103,8 @@ export function evaluateContinue(s: Extract<Statement, { kind: 'continue' }>, ct
     const e0 = substitute(r.expr, map);
     const signed = sign > 0 ? e0 : neg(e0);
     const chk = [...samplePoints(domainsOf(ctx, others), others, 6, 5)].map((p) => new Map([...fixed, ...p]));
-    const simp = tidy(rewriteChecked('simplify', signed, chk.length ? chk : [new Map()]).expr);
+    // roots reduced in exact arithmetic where that reaches; the general algebra package otherwise
+    const simp = tidy(rootsReduced(signed) ?? rewriteChecked('simplify', signed, chk.length ? chk : [new Map()]).expr);
     const at0 = (() => { try { return evaluate(simp, base); } catch { return null; } })();
     if (at0 && Math.hypot(at0.re - value.re, at0.im - value.im) <= 1e-8 * Math.hypot(value.re, value.im)) closed = formulaOf(simp);
   }

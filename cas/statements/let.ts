@@ -12,6 +12,7 @@ import { formulaOf } from '../expr/print.js';
 import { tidy } from '../expr/tidy.js';
 import { exactDecimals } from '../expr/numberExpr.js';
 import { rewriteChecked } from '../algebra/adapter.js';
+import { rootsReduced } from '../expr/rootsReduced.js';
 import { sampledBasis, samplePoints, type Point } from '../domains/sample.js';
 import { complexText, piMultiple } from '../gaussian/describe.js';
 import { blankReport, domainsOf, StatementFailure, type Context } from './context.js';
@@ -58,7 +59,10 @@ export function evaluateLet(s: Extract<Statement, { kind: 'let' }>, ctx: Context
   for (const n of resultsUsed) { const r = ctx.results.get(n)!; const e = r.exactForm ?? r.expr; if (e) subst.set(n, e); }
   const full = substitute(s.expr, subst);
   const closedOk = resultsUsed.every((n) => subst.has(n));
-  const simplified = closedOk ? rewriteChecked('simplify', full, points.slice(0, 8)) : { expr: s.expr, accepted: false };
+  // the roots reduced by their squares in exact arithmetic first (no general algebra package,
+  // which takes 100 ms and more on a root squared); the package only when that is out of reach
+  const reduced = closedOk ? rootsReduced(full) : null;
+  const simplified = reduced ? { expr: reduced, accepted: true } : closedOk ? rewriteChecked('simplify', full, points.slice(0, 8)) : { expr: s.expr, accepted: false };
   const form = tidy(simplified.expr);
   // check the closed form against the branch-faithful values
   let agree = 0; let compared = 0;

@@ -41,8 +41,10 @@ function bothSides(a: Expr, b: Expr, roots?: RootSymbol[]): [RatFunc, RatFunc] |
   const admit = (fn: string) => ENTIRE.has(fn);
   const ea = xa && valuesAsSymbols(xa, symbols, admit);
   const eb = ea && xb && valuesAsSymbols(xb, symbols, admit);
-  const ra = eb && fromExpr(ea!);
-  const rb = ra && fromExpr(eb!);
+  // the second try compares cross products only, so its quotients need no gcd (which can take long)
+  const lowest = !roots;
+  const ra = eb && fromExpr(ea!, undefined, lowest);
+  const rb = ra && fromExpr(eb!, undefined, lowest);
   return ra && rb ? [ra, rb] : null;
 }
 
