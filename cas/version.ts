@@ -4,4 +4,4 @@
  * what the core computes or how it words the record (a test compares it with the
  * record's format number below, so a change of the step schema cannot forget it).
  */
-export const ENGINE_VERSION = '2026.12.03-7';
+export const ENGINE_VERSION = '2026.12.03-8';

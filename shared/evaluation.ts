@@ -140,8 +140,9 @@ export const step = z.discriminatedUnion('kind', [
     /** differs: the squares or exponentials differ exactly; sign: equal up to a sign read per cell;
      *  identical: the same rational function of the parameters and of exp/sinh/cosh/sin/cos values;
      *  continuous-sign: the same square and exponent, every radicand off the cut on the whole domain (several parameters), the sign read once per connected piece;
-     *  exponential-form: the same after sinh, cosh and whole multiples of asinh are written as exponentials (cas/verdicts/expForm.ts); sampled. */
-    how: z.enum(['differs', 'sign', 'continuous-sign', 'identical', 'exponential-form', 'sampled']).default('sampled'),
+     *  exponential-form: the same after sinh, cosh and whole multiples of asinh are written as exponentials (cas/verdicts/expForm.ts);
+     *  roots: the same once each square root is a symbol reduced by its square (no hyperbolic rewrite); sampled. */
+    how: z.enum(['differs', 'sign', 'continuous-sign', 'identical', 'exponential-form', 'roots', 'sampled']).default('sampled'),
   }),
   z.object({
     kind: z.literal('numeric-check'),
@@ -239,8 +240,8 @@ export const step = z.discriminatedUnion('kind', [
     constant: z.boolean(),
     basis,
     spread: z.number(),
-    /** A proved constant ratio: shown with the values as symbols, or after writing sinh, cosh and asinh as exponentials (cas/verdicts/expForm.ts). */
-    how: z.enum(['values', 'exponential-form']).optional(),
+    /** A proved constant ratio: shown with the values as symbols, after writing sinh, cosh and asinh as exponentials (cas/verdicts/expForm.ts), or with only square roots reduced by their squares. */
+    how: z.enum(['values', 'exponential-form', 'roots']).optional(),
   }),
   z.object({
     kind: z.literal('comparison-verdict'),

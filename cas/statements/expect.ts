@@ -58,7 +58,7 @@ export function evaluateExpect(s: Extract<Statement, { kind: 'expect' }>, ctx: C
   const identity = proofForm ? sameFunctionHow(proofForm, s.expr) : null;
   if (identity) {
     report.proof = 'proved';
-    report.steps.push({ kind: 'expect', name, expected: formulaOf(s.expr), holds: true, exact: true, basis: { kind: 'proved' }, worst: null, regions: [], how: identity === 'values' ? 'identical' : 'exponential-form' });
+    report.steps.push({ kind: 'expect', name, expected: formulaOf(s.expr), holds: true, exact: true, basis: { kind: 'proved' }, worst: null, regions: [], how: identity === 'values' ? 'identical' : identity });
     return report;
   }
   const points = ordered.length ? samplePoints(domains, ordered, EXPECT_SAMPLES, 777) : [new Map()];

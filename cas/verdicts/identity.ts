@@ -106,8 +106,20 @@ function formedDiffers(a: Expr, b: Expr): boolean {
   return has(a) || has(b);
 }
 
-/** How an identity was shown: the values as symbols, or after the exponential form of expForm.ts. */
-export type IdentityMethod = 'values' | 'exponential-form';
+/**
+ * How an identity was shown: the values as symbols; or after the exponential form of
+ * expForm.ts, named `roots` when no sinh, cosh or asinh was rewritten (only square roots
+ * reduced by their squares), so the record names only what the proof used.
+ */
+export type IdentityMethod = 'values' | 'exponential-form' | 'roots';
+
+const HYPERBOLIC = new Set(['sinh', 'cosh', 'asinh']);
+function hasHyperbolic(e: Expr): boolean {
+  return e.t === 'call' ? HYPERBOLIC.has(e.fn) || e.args.some(hasHyperbolic)
+    : e.t === 'bin' ? hasHyperbolic(e.a) || hasHyperbolic(e.b)
+      : e.t === 'neg' ? hasHyperbolic(e.a) : false;
+}
+const formedMethod = (a: Expr, b: Expr): IdentityMethod => (hasHyperbolic(a) || hasHyperbolic(b) ? 'exponential-form' : 'roots');
 
 /** How `a` and `b` are shown to be the same function (see above); null when not shown. */
 export function sameFunctionHow(a: Expr, b: Expr): IdentityMethod | null {
@@ -118,7 +130,7 @@ export function sameFunctionHow(a: Expr, b: Expr): IdentityMethod | null {
     const f = formedSides(a, b);
     if (!f) return null;
     const d = within(polySub(within(polyMul(f.na, f.db)), within(polyMul(f.nb, f.da))));
-    return [...reduceByRoots([d], f.roots)[0]!.values()].every(isZero) ? 'exponential-form' : null;
+    return [...reduceByRoots([d], f.roots)[0]!.values()].every(isZero) ? formedMethod(a, b) : null;
   } catch (e) {
     if (e instanceof OverBudget) return null;
     throw e;
@@ -156,7 +168,7 @@ export function constantRatioHow(a: Expr, b: Expr): { ratio: GQ; how: IdentityMe
     const k = gmul(mt.c, ginv(lt.c));
     const keys = new Set([...top.keys(), ...bottom.keys()]);
     const holds = [...keys].every((key) => isZero(polySub(top.get(key) ?? ZERO, polyScale(bottom.get(key) ?? ZERO, k))));
-    return holds && !gzero(k) ? { ratio: k, how: 'exponential-form' } : null;
+    return holds && !gzero(k) ? { ratio: k, how: formedMethod(a, b) } : null;
   } catch (e) {
     if (e instanceof OverBudget) return null;
     throw e;

@@ -162,9 +162,9 @@ function expect(s: StepOf<'expect'>): RenderedStep {
         latex: `${mathName(s.name)} = ${s.expected.latex}`,
       };
     }
-    if (s.holds && s.how === 'exponential-form') {
+    if (s.holds && (s.how === 'exponential-form' || s.how === 'roots')) {
       return {
-        text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: ${EXPONENTIAL_FORM}.`,
+        text: `${s.name} = ${s.expected.text} holds, ${basisText(s.basis)}: ${s.how === 'roots' ? ROOTS_REDUCED : EXPONENTIAL_FORM}.`,
         latex: `${mathName(s.name)} = ${s.expected.latex}`,
       };
     }
@@ -319,9 +319,13 @@ function sheet(s: StepOf<'sheet'>): RenderedStep {
 const EXPONENTIAL_FORM =
   'with sinh(u) = (exp(u) - exp(-u))/2, cosh(u) = (exp(u) + exp(-u))/2 and exp(k*asinh(y)) = (y + sqrt(y^2 + 1))^k for whole k (the principal asinh(y) is log(y + sqrt(y^2 + 1)) on its whole cut plane, so no branch choice enters), and each square root reduced by its square (sqrt(y^2 + 1), and sqrt(X) or X^(k/2) in the forms, X rational in the parameters), the two sides are the same rational function of the parameters and the remaining values';
 
+/** How an identity with square roots only is shown (cas/verdicts/identity.ts, method `roots`). */
+const ROOTS_REDUCED =
+  'with each square root a symbol r reduced by its square r^2 = X (sqrt(X), or X^(k/2) read as X^((k - 1)/2)*sqrt(X), X rational in the parameters; the principal root satisfies this as every root does, so no branch choice enters), the two sides are the same rational function of the parameters, these roots and the remaining values';
+
 function comparison(s: StepOf<'comparison'>): RenderedStep {
   const ratio = s.ratio ? s.ratio.text : complexApprox(s.ratioValue, 12);
-  const how = s.how === 'exponential-form' ? `: ${EXPONENTIAL_FORM}, up to this constant factor` : s.how === 'values' ? ': the same rational function of the parameters and of the values of exp, sinh, cosh, sin and cos in them, up to this constant factor' : '';
+  const how = s.how === 'exponential-form' ? `: ${EXPONENTIAL_FORM}, up to this constant factor` : s.how === 'roots' ? `: ${ROOTS_REDUCED}, up to this constant factor` : s.how === 'values' ? ': the same rational function of the parameters and of the values of exp, sinh, cosh, sin and cos in them, up to this constant factor' : '';
   return {
     text: `${s.a}/${s.b} = ${ratio}${s.constant ? `, constant (${basisText(s.basis)}${how})` : `; not constant (${basisText(s.basis)})`}.`,
     latex: `\\frac{${mathName(s.a)}}{${mathName(s.b)}} ${s.ratio ? `= ${s.ratio.latex}` : complexApproxLatex(s.ratioValue, 12)}`,

@@ -136,6 +136,8 @@ test('sinh, cosh and whole multiples of asinh: identities shown in exponential f
     assert.equal(sameFunctionHow(parseExpression(a), parseExpression(b)), 'exponential-form');
   }
   assert.equal(sameFunction(parseExpression(pairs[5]![0]), parseExpression(pairs[5]![0].replace('L*w)', 'w*L)'))), true);
+  // with square roots only, the method is named for what it used
+  assert.equal(sameFunctionHow(parseExpression('sqrt(2*pi/w)*exp(i*pi/4)*(k^2 + 1)^(3/2)'), parseExpression('exp(i*pi/4)*(k^2 + 1)*sqrt(1 + k^2)*(2*pi/w)^(1/2)')), 'roots');
   assert.deepEqual(mpmathAgree(pairs), pairs.map(() => true));
 });
 

@@ -78,4 +78,6 @@ test('rotating exp(i*w*x^2/2) by pi/4 is decided on the whole domain: A = w, and
   assert.ok(Number(math.abs(math.subtract(value, fresnel) as never)) < 1e-12);
   const cmp = report.statements.find((s) => s.kind === 'compare')!;
   assert.equal(cmp.proof, 'proved');
+  // only square roots were reduced (no hyperbolic rewrite), and the record says so
+  assert.ok(cmp.steps.some((s) => s.kind === 'comparison' && s.how === 'roots'));
 });
