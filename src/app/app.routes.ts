@@ -1,17 +1,21 @@
 import { Routes } from '@angular/router';
 import { adminGuard, authGuard, guestGuard } from './core/auth/auth-guard';
 import { unsavedChangesGuard } from './worksheets/unsaved-changes-guard';
+import { fetchEarly } from './core/http/early-responses';
 
 const worksheetPage = () => import('./worksheets/worksheet-page/worksheet-page').then((m) => m.WorksheetPage);
 
 /**
  * A visit that starts on a worksheet (a link, a reload) loads the worksheet page's code and
- * KaTeX while the app starts and checks the session, not after: the page then asks for the
- * worksheet and its stored report as soon as the session is known (bench/open-worksheet).
- * A failed load here is retried by the router's own import.
+ * KaTeX, and asks for the worksheet and its stored report (core/http/early-responses.ts),
+ * while the app starts and checks the session, not after (bench/open-worksheet).
+ * A failed load here is retried by the router's own import, a failed request by the page.
  */
 export function loadEarly(path: string): void {
-  if (!/^\/worksheets\/\d+/.test(path)) return;
+  const id = /^\/worksheets\/(\d+)(?:[/?#]|$)/.exec(path)?.[1];
+  if (!id) return;
+  fetchEarly(`/api/worksheets/${id}`);
+  fetchEarly(`/api/worksheets/${id}/report`);
   worksheetPage().catch(() => undefined);
   import('./worksheets/findings/math').then((m) => m.loadKatex()).catch(() => undefined);
 }
