@@ -12,7 +12,7 @@
  *
  * Example: const core = loadWithCodeCache<{ runJob: ... }>('dist/cli/core.cjs', 'dist/cli/core.cjs.cache');
  */
-import { readFileSync, statSync } from 'node:fs';
+import { closeSync, fstatSync, openSync, readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname } from 'node:path';
 import vm from 'node:vm';
@@ -32,8 +32,17 @@ const MAGIC = 'sheetwise code cache 1';
 type CommonJsBody = (exports: unknown, require: NodeRequire, module: { exports: unknown }, filename: string, dirname: string) => void;
 
 export function loadWithCodeCache<T>(file: string, cacheFile: string): LoadedBundle<T> {
-  const source = readFileSync(file, 'utf8');
-  const { size, mtimeMs } = statSync(file);
+  // size, time and text from one open file, so they belong together even if a build replaces it meanwhile
+  const fd = openSync(file, 'r');
+  let source: string;
+  let size: number;
+  let mtimeMs: number;
+  try {
+    ({ size, mtimeMs } = fstatSync(fd));
+    source = readFileSync(fd, 'utf8');
+  } finally {
+    closeSync(fd);
+  }
   const header = Buffer.from(`${MAGIC} ${size} ${mtimeMs}\n`, 'latin1');
   let cachedData: Buffer | undefined;
   let status: CodeCacheStatus = 'missing';
