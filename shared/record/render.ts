@@ -321,7 +321,7 @@ const EXPONENTIAL_FORM =
 
 /** How an identity with square roots only is shown (cas/verdicts/identity.ts, method `roots`). */
 const ROOTS_REDUCED =
-  'with each square root a symbol r reduced by its square r^2 = X (sqrt(X), or X^(k/2) read as X^((k - 1)/2)*sqrt(X), X rational in the parameters; the principal root satisfies this as every root does, so no branch choice enters), the two sides are the same rational function of the parameters, these roots and the remaining values';
+  'with each square root a symbol r reduced by its square, r^2 = X (sqrt(X), or X^(k/2) read as X^((k - 1)/2)*sqrt(X), X rational in the parameters; r^2 = X holds for the principal root as for any root, so no branch choice enters), the two sides are the same rational function of the parameters, these roots and the remaining values';
 
 function comparison(s: StepOf<'comparison'>): RenderedStep {
   const ratio = s.ratio ? s.ratio.text : complexApprox(s.ratioValue, 12);
