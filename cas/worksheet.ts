@@ -223,7 +223,7 @@ function namesUsedAfter(parsed: ParsedWorksheet, previous: Map<number, Statement
 }
 
 /** A line without its trailing comment (a # inside a note's quotes is text, not a comment). */
-function statementText(line: string): string {
+export function statementText(line: string): string {
   let quoted = false;
   for (let k = 0; k < line.length; k++) {
     const ch = line[k];

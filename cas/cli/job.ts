@@ -5,7 +5,7 @@
  * main thread stays free to answer SIGINT/SIGTERM and stops the thread with
  * worker.terminate(), which V8 honours even inside a long statement.
  */
-import { evaluateWorksheet } from '../worksheet.js';
+import { evaluateWorksheet, statementText } from '../worksheet.js';
 import { parseWorksheet } from '../lang/parse.js';
 import { ENGINE_VERSION } from '../version.js';
 import { blankReport } from '../statements/context.js';
@@ -49,13 +49,3 @@ export function runJob(job: CliJob, post: (m: CliMessage) => void): void {
   }
 }
 
-/** A line without its trailing comment, as the worksheet core writes it. */
-function statementText(line: string): string {
-  let quoted = false;
-  for (let k = 0; k < line.length; k++) {
-    const ch = line[k];
-    if (ch === '"') quoted = !quoted;
-    else if (ch === '#' && !quoted) return line.slice(0, k).trim();
-  }
-  return line.trim();
-}

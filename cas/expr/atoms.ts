@@ -14,6 +14,7 @@ import { fromExpr, rfToString } from '../exact/ratfunc.js';
 import { ratExpr } from './fromExact.js';
 import { substitute } from './names.js';
 import { formulaOf } from './print.js';
+import { rebuild } from './rebuild.js';
 
 export interface ValueSymbols {
   /** key (function and exact argument) -> symbol */
@@ -39,36 +40,24 @@ export function valuesAsSymbols(e: Expr, symbols: ValueSymbols, admit: (fn: stri
     }
     return { t: 'name', name: s };
   };
-  const go = (x: Expr): Expr | null => {
-    switch (x.t) {
-      case 'num': case 'const': case 'name':
-        return x;
-      case 'neg': {
-        const a = go(x.a);
-        return a && { t: 'neg', a };
+  return rebuild(e, {
+    bin: (x, a, b) => {
+      if (x.op === '^' && powersToo && !fromExpr({ t: 'bin', op: '^', a: { t: 'name', name: '%x' }, b })) {
+        // a non-integer power: the base and exponent in exact form where they have one
+        const rb = fromExpr(a); const re = fromExpr(b);
+        const base = rb ? ratExpr(rb, true) : a; const exponent = re ? ratExpr(re, true) : b;
+        return symbolFor(`^(${rb ? rfToString(rb) : formulaOf(a).text},${re ? rfToString(re) : formulaOf(b).text})`, keepForm ? x : { t: 'bin', op: '^', a: base, b: exponent });
       }
-      case 'bin': {
-        const a = go(x.a);
-        const b = a && go(x.b);
-        if (!a || !b) return null;
-        if (x.op === '^' && powersToo && !fromExpr({ t: 'bin', op: '^', a: { t: 'name', name: '%x' }, b })) {
-          // a non-integer power: the base and exponent in exact form where they have one
-          const rb = fromExpr(a); const re = fromExpr(b);
-          const base = rb ? ratExpr(rb, true) : a; const exponent = re ? ratExpr(re, true) : b;
-          return symbolFor(`^(${rb ? rfToString(rb) : formulaOf(a).text},${re ? rfToString(re) : formulaOf(b).text})`, keepForm ? x : { t: 'bin', op: '^', a: base, b: exponent });
-        }
-        return { t: 'bin', op: x.op, a, b };
-      }
-      case 'call': {
-        if (!admit(x.fn) || x.args.length !== 1) return null;
-        const arg = go(x.args[0]!);
-        const r = arg && fromExpr(arg);
-        if (!r) return null;
-        return symbolFor(`${x.fn}(${rfToString(r)})`, keepForm ? x : { t: 'call', fn: x.fn, args: [ratExpr(r, true)] });
-      }
-    }
-  };
-  return go(e);
+      return undefined;
+    },
+    call: (x, walk) => {
+      if (!admit(x.fn) || x.args.length !== 1) return null;
+      const arg = walk(x.args[0]!);
+      const r = arg && fromExpr(arg);
+      if (!r) return null;
+      return symbolFor(`${x.fn}(${rfToString(r)})`, keepForm ? x : { t: 'call', fn: x.fn, args: [ratExpr(r, true)] });
+    },
+  });
 }
 
 /**

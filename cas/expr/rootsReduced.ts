@@ -21,6 +21,7 @@ import { add, call, div, I, mul, name, neg, num, pow } from './build.js';
 import { ratExpr } from './fromExact.js';
 import { substitute } from './names.js';
 import { formulaOf } from './print.js';
+import { rebuild } from './rebuild.js';
 
 interface Symbols {
   /** exact key of the value -> symbol */
@@ -54,44 +55,32 @@ function reducedRational(e: Expr, valuesAllowed: boolean): { r: RatFunc; s: Symb
     if (!square || [...variables(square.num), ...variables(square.den)].some(isSymbol)) return null;
     return symbol(`sqrt(${rfToString(square)})`, call('sqrt', ratExpr(square, true)), square);
   };
-  const go = (x: Expr): Expr | null => {
-    if (refused) return null;
-    switch (x.t) {
-      case 'num': case 'const': case 'name':
-        return x;
-      case 'neg': {
-        const a = go(x.a);
-        return a && { t: 'neg', a };
+  const go = (x: Expr): Expr | null => rebuild(x, {
+    bin: (x, a, b) => {
+      if (x.op !== '^') return undefined;
+      const k = fromExpr(b);
+      const c = k && rfConstantValue(k);
+      if (c && c.im.n === 0n && c.re.d === 1n) return undefined;
+      if (c && c.im.n === 0n && c.re.d === 2n) {
+        const root = rootOf(a);
+        return root && mul(pow(a, num(((c.re.n - 1n) / 2n).toString())), root);
       }
-      case 'bin': {
-        const a = go(x.a);
-        const b = a && go(x.b);
-        if (!a || !b) return null;
-        if (x.op !== '^') return { t: 'bin', op: x.op, a, b };
-        const k = fromExpr(b);
-        const c = k && rfConstantValue(k);
-        if (c && c.im.n === 0n && c.re.d === 1n) return { t: 'bin', op: '^', a, b };
-        if (c && c.im.n === 0n && c.re.d === 2n) {
-          const root = rootOf(a);
-          return root && mul(pow(a, num(((c.re.n - 1n) / 2n).toString())), root);
-        }
-        // another power: a value of its own, as written
-        return symbol(`^${formulaOf(x).text}`, x);
+      // another power: a value of its own, as written
+      return symbol(`^${formulaOf(x).text}`, x);
+    },
+    call: (x, walk) => {
+      if (x.fn === 'sqrt' && x.args.length === 1) {
+        const arg = walk(x.args[0]!);
+        return arg && rootOf(arg);
       }
-      case 'call': {
-        if (x.fn === 'sqrt' && x.args.length === 1) {
-          const arg = go(x.args[0]!);
-          return arg && rootOf(arg);
-        }
-        // only for an exact rational form: a display keeps exp(i*pi/4) as written
-        if (!valuesAllowed && x.fn === 'exp' && x.args.length === 1) {
-          const unit = rootOfUnity(x.args[0]!);
-          if (unit) return go(unit);
-        }
-        return symbol(`${x.fn}:${formulaOf(x).text}`, x);
+      // only for an exact rational form: a display keeps exp(i*pi/4) as written
+      if (!valuesAllowed && x.fn === 'exp' && x.args.length === 1) {
+        const unit = rootOfUnity(x.args[0]!);
+        if (unit) return walk(unit);
       }
-    }
-  };
+      return symbol(`${x.fn}:${formulaOf(x).text}`, x);
+    },
+  });
   const walked = go(e);
   let r = !refused && walked ? fromExpr(walked) : null;
   if (!r) return null;

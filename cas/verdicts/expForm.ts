@@ -19,6 +19,7 @@
  */
 import type { Expr } from '../lang/ast.js';
 import { fromExpr, rfConstantValue, rfNeg, rfToString, type RatFunc } from '../exact/ratfunc.js';
+import { rebuild } from '../expr/rebuild.js';
 
 /** A symbol standing for sqrt(y^2 + 1): `square` is y^2 + 1 as a rational function. */
 export interface RootSymbol {
@@ -68,47 +69,33 @@ function asinhMultiple(e: Expr, sign: 1 | -1): [bigint, Expr] | null {
 
 /** e in exponential form (see above), or null when a part is out of reach. */
 export function expForm(e: Expr, forms: ExpForms): Expr | null {
-  const go = (x: Expr): Expr | null => {
-    switch (x.t) {
-      case 'num': case 'const': case 'name':
-        return x;
-      case 'neg': {
-        const a = go(x.a);
-        return a && { t: 'neg', a };
+  const go = (x: Expr): Expr | null => rebuild(x, {
+    // X^(k/2) with k odd: X^((k - 1)/2) * sqrt(X), the root a symbol as below
+    bin: (x, a, b) => {
+      if (x.op !== '^') return undefined;
+      const e = fromExpr(b);
+      const k = e && rfConstantValue(e);
+      if (!k || k.im.n !== 0n || k.re.d !== 2n) return undefined;
+      const root = rootOf(a, 'square');
+      return root ? bin('*', bin('^', a, num(((k.re.n - 1n) / 2n).toString())), { t: 'name', name: root }) : null;
+    },
+    call: (x, walk) => {
+      if (x.args.length !== 1) return null;
+      const u = x.args[0]!;
+      if (x.fn === 'exp') return expOf(u, 1);
+      if (x.fn === 'sinh' || x.fn === 'cosh') {
+        const plus = expOf(u, 1);
+        const minus = plus && expOf(u, -1);
+        return plus && minus ? bin('/', bin(x.fn === 'sinh' ? '-' : '+', plus, minus), num('2')) : null;
       }
-      case 'bin': {
-        const a = go(x.a);
-        const b = a && go(x.b);
-        if (!a || !b) return null;
-        // X^(k/2) with k odd: X^((k - 1)/2) * sqrt(X), the root a symbol as below
-        if (x.op === '^') {
-          const e = fromExpr(b);
-          const k = e && rfConstantValue(e);
-          if (k && k.im.n === 0n && k.re.d === 2n) {
-            const root = rootOf(a, 'square');
-            return root ? bin('*', bin('^', a, num(((k.re.n - 1n) / 2n).toString())), { t: 'name', name: root }) : null;
-          }
-        }
-        return { t: 'bin', op: x.op, a, b };
+      const arg = walk(u);
+      if (arg && x.fn === 'sqrt') {
+        const root = rootOf(arg, 'square');
+        return root ? { t: 'name', name: root } : null;
       }
-      case 'call': {
-        if (x.args.length !== 1) return null;
-        const u = x.args[0]!;
-        if (x.fn === 'exp') return expOf(u, 1);
-        if (x.fn === 'sinh' || x.fn === 'cosh') {
-          const plus = expOf(u, 1);
-          const minus = plus && expOf(u, -1);
-          return plus && minus ? bin('/', bin(x.fn === 'sinh' ? '-' : '+', plus, minus), num('2')) : null;
-        }
-        const arg = go(u);
-        if (arg && x.fn === 'sqrt') {
-          const root = rootOf(arg, 'square');
-          return root ? { t: 'name', name: root } : null;
-        }
-        return arg && { t: 'call', fn: x.fn, args: [arg] };
-      }
-    }
-  };
+      return arg && { t: 'call', fn: x.fn, args: [arg] };
+    },
+  });
   /** exp(sign*u) with the whole multiples of asinh taken out of u. */
   const expOf = (u: Expr, sign: 1 | -1): Expr | null => {
     const parts: { sign: 1 | -1; e: Expr }[] = [];
